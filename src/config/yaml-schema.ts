@@ -1,0 +1,198 @@
+/**
+ * Reads a YAML file and validates it against a JSON Schema shipped in `schemas/`. Every problem is
+ * reported with file:line:column, the key path, what was expected and the value found.
+ */
+import { readFileSync } from "node:fs";
+import { Ajv, type ErrorObject, type ValidateFunction } from "ajv";
+import { isMap, isPair, isScalar, LineCounter, type Node, parseDocument } from "yaml";
+import { SettingsError } from "../errors.js";
+import { msg } from "../messages.js";
+
+const ajv = new Ajv({ allErrors: true, strict: true, allowUnionTypes: true });
+const compiled = new Map<string, ValidateFunction>();
+
+function validatorFor(schemaName: string): ValidateFunction {
+  let validate = compiled.get(schemaName);
+  if (!validate) {
+    const url = new URL(`../../schemas/${schemaName}`, import.meta.url);
+    validate = ajv.compile(JSON.parse(readFileSync(url, "utf8")) as object);
+    compiled.set(schemaName, validate);
+  }
+  return validate;
+}
+
+/** Where a key path sits in the YAML text, for messages. */
+export type Locator = (path: readonly (string | number)[], keyItself?: boolean) => string;
+
+export interface LoadedYaml {
+  readonly data: unknown;
+  readonly locate: Locator;
+}
+
+export function readTextFile(path: string, what: string): string {
+  try {
+    return readFileSync(path, "utf8");
+  } catch (error) {
+    throw new SettingsError(msg.cannotRead(path, what, error));
+  }
+}
+
+export function loadYaml(path: string, what: string): LoadedYaml {
+  const text = readTextFile(path, what);
+  const lineCounter = new LineCounter();
+  const doc = parseDocument(text, { lineCounter, uniqueKeys: true, prettyErrors: false });
+  if (doc.errors.length > 0) {
+    const lines = doc.errors.slice(0, 5).map((e) => {
+      const pos = e.linePos?.[0];
+      return msg.yamlSyntax(path, pos?.line ?? 1, pos?.col ?? 1, e.message.split("\n")[0] ?? e.message);
+    });
+    throw new SettingsError(lines.join("\n"));
+  }
+  const data: unknown = doc.toJS({ maxAliasCount: 100 });
+  const locate: Locator = (keyPath, keyItself = false) => {
+    let node: unknown = doc.contents;
+    let keyNode: Node | undefined;
+    for (const key of keyPath) {
+      if (!isMap(node) && !(node && typeof node === "object" && "items" in node)) break;
+      const items = (node as { items: unknown[] }).items;
+      const next = isMap(node)
+        ? items.find((p) => isPair(p) && isScalar(p.key) && String(p.key.value) === String(key))
+        : items[Number(key)];
+      if (next === undefined) break;
+      if (isPair(next)) {
+        keyNode = next.key as Node;
+        node = next.value;
+      } else {
+        keyNode = undefined;
+        node = next;
+      }
+    }
+    const target = keyItself && keyNode ? keyNode : ((node as Node | null | undefined) ?? keyNode);
+    const offset = target?.range?.[0] ?? 0;
+    const { line, col } = lineCounter.linePos(offset);
+    return `${path}:${line}:${col}`;
+  };
+  return { data, locate };
+}
+
+function describeValue(value: unknown): string {
+  if (value === undefined) return "nothing";
+  if (value === null) return "an empty value";
+  if (typeof value === "string")
+    return JSON.stringify(value.length > 60 ? `${value.slice(0, 57)}...` : value);
+  if (Array.isArray(value)) return "a list";
+  if (typeof value === "object") return "a mapping";
+  return String(value);
+}
+
+function valueAt(data: unknown, path: readonly string[]): unknown {
+  let v: unknown = data;
+  for (const key of path) {
+    if (v === null || typeof v !== "object") return undefined;
+    v = (v as Record<string, unknown>)[key];
+  }
+  return v;
+}
+
+function expectation(error: ErrorObject): string {
+  const p = error.params as Record<string, unknown>;
+  switch (error.keyword) {
+    case "type": {
+      const t = String(p.type);
+      const names: Record<string, string> = {
+        number: "a number",
+        integer: "a whole number",
+        string: "text",
+        boolean: "true or false",
+        object: "a mapping of keys",
+        array: "a list",
+        null: "an empty value",
+      };
+      return `expected ${t
+        .split(",")
+        .map((x) => names[x] ?? x)
+        .join(" or ")}`;
+    }
+    case "enum":
+      return `expected one of ${(p.allowedValues as unknown[]).map(String).join(", ")}`;
+    case "const":
+      return `expected ${String(p.allowedValue)}`;
+    case "minimum":
+      return `expected at least ${String(p.limit)}`;
+    case "maximum":
+      return `expected at most ${String(p.limit)}`;
+    case "exclusiveMinimum":
+      return `expected more than ${String(p.limit)}`;
+    case "exclusiveMaximum":
+      return `expected less than ${String(p.limit)}`;
+    case "minItems":
+      return `expected at least ${String(p.limit)} item(s)`;
+    case "maxItems":
+      return `expected at most ${String(p.limit)} item(s)`;
+    case "minLength":
+      return "expected non-empty text";
+    case "maxLength":
+      return `expected at most ${String(p.limit)} characters`;
+    case "pattern":
+      return `expected text of the form ${String(p.pattern)}`;
+    case "uniqueItems":
+      return "expected each item once";
+    case "minProperties":
+      return "expected at least one entry";
+    default:
+      return error.message ?? "invalid";
+  }
+}
+
+/** Validates `data` with a schema from `schemas/`; throws one SettingsError listing every problem. */
+export function validateWithSchema(loaded: LoadedYaml, schemaName: string, topKeyHint: string): void {
+  const validate = validatorFor(schemaName);
+  if (validate(loaded.data)) return;
+  const problems: string[] = [];
+  const seen = new Set<string>();
+  const errors = (validate.errors ?? []).filter(
+    // Inside a oneOf the individual branch failures say little; keep the summary error only.
+    (e) => !(e.schemaPath.includes("/oneOf/") && e.keyword !== "oneOf"),
+  );
+  for (const error of errors) {
+    const path = error.instancePath
+      .split("/")
+      .slice(1)
+      .map((s) => s.replace(/~1/g, "/").replace(/~0/g, "~"));
+    const dotted = path.length > 0 ? path.join(".") : topKeyHint;
+    const p = error.params as Record<string, unknown>;
+    let text: string;
+    let where: string;
+    if (error.keyword === "additionalProperties") {
+      const key = String(p.additionalProperty);
+      const allowed = Object.keys(
+        (error.parentSchema as { properties?: Record<string, unknown> }).properties ?? {},
+      );
+      where = loaded.locate([...path, key], true);
+      text = msg.unknownKey(path.length > 0 ? `${dotted}.${key}` : key, allowed);
+    } else if (error.keyword === "required") {
+      where = loaded.locate(path);
+      text = msg.missingKey(
+        path.length > 0 ? `${dotted}.${String(p.missingProperty)}` : String(p.missingProperty),
+      );
+    } else if (error.keyword === "propertyNames") {
+      const name = String(p.propertyName);
+      where = loaded.locate([...path, name], true);
+      text = msg.badKeyName(dotted, name);
+    } else if (error.keyword === "oneOf") {
+      where = loaded.locate(path);
+      text = msg.badCalibration(dotted, describeValue(valueAt(loaded.data, path)));
+    } else if (error.keyword === "pattern" && error.propertyName !== undefined) {
+      continue; // reported by the propertyNames error
+    } else {
+      where = loaded.locate(path);
+      text = `${dotted}: ${expectation(error)}, found ${describeValue(valueAt(loaded.data, path))}`;
+    }
+    const line = `${where}: ${text}`;
+    if (!seen.has(line)) {
+      seen.add(line);
+      problems.push(line);
+    }
+  }
+  throw new SettingsError(problems.join("\n"));
+}

@@ -1,0 +1,92 @@
+/**
+ * Small CSV tables (sessions file, roster): the same record reader as the windows file, with every
+ * field decoded to text. Rows with broken structure are counted in the RowAccount with their
+ * location; a missing file or header is fatal.
+ */
+import { basename } from "node:path";
+import { InputError } from "../errors.js";
+import { msg } from "../messages.js";
+import { unneutralise } from "../output/csv-write.js";
+import { readRecordsFromFile } from "./csv-records.js";
+import { location, type RowAccount } from "./quality.js";
+
+export interface TableRow {
+  readonly line: number;
+  readonly cells: readonly string[];
+  /** Character column where field i starts. */
+  readonly columns: readonly number[];
+}
+
+export interface TableHeader {
+  readonly names: readonly string[];
+  readonly index: ReadonlyMap<string, number>;
+}
+
+export function readCsvTable(
+  path: string,
+  what: string,
+  account: RowAccount,
+  required: readonly string[],
+  onRow: (row: TableRow, header: TableHeader) => void,
+  onHeader?: (header: TableHeader) => void,
+): TableHeader {
+  const file = basename(path);
+  let header: TableHeader | null = null;
+  let rows = 0;
+  try {
+    readRecordsFromFile(path, {
+      record(view) {
+        const cells = Array.from({ length: view.count }, (_, i) => unneutralise(view.text(i)));
+        if (!header) {
+          const names = cells.map((c) => c.trim().toLowerCase());
+          const index = new Map<string, number>();
+          for (const [i, name] of names.entries()) {
+            if (index.has(name)) throw new InputError(msg.duplicateColumn(file, name));
+            index.set(name, i);
+          }
+          const missing = required.filter((c) => !index.has(c));
+          if (missing.length > 0) throw new InputError(msg.missingColumns(file, missing, names));
+          header = { names, index };
+          onHeader?.(header);
+          return;
+        }
+        rows++;
+        account.rowsRead++;
+        if (view.count !== header.names.length) {
+          account.reject("wrong-field-count", {
+            at: location(file, view.line),
+            value: `${view.count} fields, header has ${header.names.length}`,
+          });
+          return;
+        }
+        onRow(
+          { line: view.line, cells, columns: Array.from({ length: view.count }, (_, i) => view.column(i)) },
+          header,
+        );
+      },
+      problem(problem) {
+        if (!header)
+          throw new InputError(
+            `${location(file, problem.line, problem.column)}: the header row: ${problem.detail}.`,
+          );
+        rows++;
+        account.rowsRead++;
+        account.reject(problem.kind, {
+          at: location(file, problem.line, problem.column),
+          value: problem.value,
+        });
+      },
+      blank() {
+        account.blankLines++;
+      },
+    });
+  } catch (error) {
+    const code = (error as { code?: unknown }).code;
+    if (typeof code === "string" && code.startsWith("E"))
+      throw new InputError(msg.cannotRead(path, what, error));
+    throw error;
+  }
+  if (!header) throw new InputError(msg.emptyFile(path, what));
+  if (rows === 0) throw new InputError(msg.headerOnly(path, what));
+  return header;
+}

@@ -1,0 +1,67 @@
+/**
+ * The data-quality account: every row read is either accepted, rejected with a reason, or an
+ * exact duplicate counted once. Nothing is dropped without being counted here.
+ */
+import { REJECT_REASONS, type RejectReason } from "../messages.js";
+
+export interface Example {
+  /** file:line or file:line:column */
+  readonly at: string;
+  readonly column?: string;
+  readonly value?: string;
+}
+
+export interface ReasonCount {
+  readonly reason: RejectReason;
+  readonly text: string;
+  readonly count: number;
+  readonly examples: readonly Example[];
+}
+
+export class RowAccount {
+  rowsRead = 0;
+  blankLines = 0;
+  duplicates = 0;
+  readonly duplicateExamples: Example[] = [];
+  private readonly reasons = new Map<RejectReason, { count: number; examples: Example[] }>();
+
+  constructor(
+    readonly file: string,
+    private readonly examplesPerReason: number,
+  ) {}
+
+  reject(reason: RejectReason, example: Example): void {
+    let entry = this.reasons.get(reason);
+    if (!entry) {
+      entry = { count: 0, examples: [] };
+      this.reasons.set(reason, entry);
+    }
+    entry.count++;
+    if (entry.examples.length < this.examplesPerReason) entry.examples.push(example);
+  }
+
+  duplicate(example: Example): void {
+    this.duplicates++;
+    if (this.duplicateExamples.length < this.examplesPerReason) this.duplicateExamples.push(example);
+  }
+
+  get rejected(): number {
+    let n = 0;
+    for (const entry of this.reasons.values()) n += entry.count;
+    return n;
+  }
+
+  get accepted(): number {
+    return this.rowsRead - this.rejected - this.duplicates;
+  }
+
+  byReason(): ReasonCount[] {
+    return [...this.reasons.entries()]
+      .map(([reason, e]) => ({ reason, text: REJECT_REASONS[reason], count: e.count, examples: e.examples }))
+      .sort((a, b) => b.count - a.count || (a.reason < b.reason ? -1 : 1));
+  }
+}
+
+export function location(file: string, line: number, column?: number): string {
+  return column === undefined ? `${file}:${line}` : `${file}:${line}:${column}`;
+}

@@ -1,0 +1,89 @@
+/** The optional roster: who a student is to the reader (name, school, grade, counselor, setting). */
+import { basename } from "node:path";
+import type { Settings } from "../config/types.js";
+import { readCsvTable } from "./csv-table.js";
+import { location, RowAccount } from "./quality.js";
+
+export interface RosterEntry {
+  readonly studentId: string;
+  readonly displayName: string;
+  readonly schoolId: string;
+  readonly grade: string;
+  readonly counselor: string;
+  readonly setting: string;
+}
+
+export interface Roster {
+  readonly file: string;
+  readonly entries: ReadonlyMap<string, RosterEntry>;
+  readonly account: RowAccount;
+  readonly ignoredColumns: readonly string[];
+}
+
+const OPTIONAL = ["display_name", "school_id", "grade", "counselor", "setting"] as const;
+
+export function readRoster(path: string, settings: Settings): Roster {
+  const file = basename(path);
+  const account = new RowAccount(file, settings.examplesPerReason);
+  const found = new Map<string, { entry: RosterEntry; line: number; lines: number[]; conflict: boolean }>();
+  let ignored: string[] = [];
+  readCsvTable(
+    path,
+    "roster",
+    account,
+    ["student_id"],
+    (row, header) => {
+      const cell = (name: string): string => {
+        const i = header.index.get(name);
+        return i === undefined ? "" : row.cells[i]!.trim();
+      };
+      const studentId = row.cells[header.index.get("student_id")!]!;
+      if (studentId === "") {
+        account.reject("empty-id", {
+          at: location(file, row.line, row.columns[header.index.get("student_id")!]),
+          column: "student_id",
+        });
+        return;
+      }
+      if (studentId.length > settings.maxFieldChars) {
+        account.reject("long-field", {
+          at: location(file, row.line),
+          column: "student_id",
+          value: studentId.slice(0, 80),
+        });
+        return;
+      }
+      const entry: RosterEntry = {
+        studentId,
+        displayName: cell("display_name"),
+        schoolId: cell("school_id"),
+        grade: cell("grade"),
+        counselor: cell("counselor"),
+        setting: cell("setting"),
+      };
+      const seen = found.get(studentId);
+      if (!seen) found.set(studentId, { entry, line: row.line, lines: [], conflict: false });
+      else {
+        seen.lines.push(row.line);
+        if (JSON.stringify(seen.entry) !== JSON.stringify(entry)) seen.conflict = true;
+      }
+    },
+    (header) => {
+      ignored = header.names.filter(
+        (n) => n !== "student_id" && !(OPTIONAL as readonly string[]).includes(n),
+      );
+    },
+  );
+  const entries = new Map<string, RosterEntry>();
+  for (const [id, f] of found) {
+    if (f.conflict) {
+      for (const line of [f.line, ...f.lines])
+        account.reject("conflict", { at: location(file, line), column: "student_id", value: id });
+    } else {
+      for (const line of f.lines)
+        account.duplicate({ at: location(file, line), value: `same row as line ${f.line}` });
+      entries.set(id, f.entry);
+    }
+  }
+  return { file, entries, account, ignoredColumns: ignored };
+}

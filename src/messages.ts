@@ -1,0 +1,84 @@
+/**
+ * Every message a user reads, in one place and one style: what is wrong, where (file:line:column,
+ * key path or column name), the value found, and what to do.
+ */
+
+function quote(value: string, max = 60): string {
+  const short = value.length > max ? `${value.slice(0, max - 3)}...` : value;
+  return JSON.stringify(short);
+}
+
+function reason(error: unknown): string {
+  const code = (error as { code?: string }).code;
+  if (code === "ENOENT") return "no such file";
+  if (code === "EACCES") return "permission denied";
+  if (code === "EISDIR") return "it is a folder, not a file";
+  return error instanceof Error ? error.message : String(error);
+}
+
+export const msg = {
+  // Files
+  cannotRead: (path: string, what: string, error: unknown) =>
+    `cannot read the ${what} ${path}: ${reason(error)}. Check the path and that the file is readable.`,
+  emptyFile: (path: string, what: string) =>
+    `${path}: the ${what} is empty. It needs a header row and at least one data row.`,
+  headerOnly: (path: string, what: string) => `${path}: the ${what} has a header row but no data rows.`,
+  emptyYaml: (path: string, what: string) => `${path}: the ${what} is empty.`,
+  yamlSyntax: (path: string, line: number, col: number, text: string) =>
+    `${path}:${line}:${col}: not valid YAML: ${text}`,
+
+  // Card and settings
+  unknownKey: (path: string, allowed: readonly string[]) =>
+    `unknown key ${quote(path)}; allowed here: ${allowed.join(", ")}. Check the spelling.`,
+  missingKey: (path: string) => `missing required key ${quote(path)}.`,
+  badKeyName: (where: string, key: string) =>
+    `${where}: construct key ${quote(key)} must be lower-case letters, digits and _, starting with a letter (the windows file's column name).`,
+  badCalibration: (path: string, found: string) =>
+    `${path}: expected none, {platt: {a: number, b: number}} or {bins: [[upper_p, rate], ...]}, found ${found}.`,
+  binsNotIncreasing: (key: string) =>
+    `constructs.${key}.calibration.bins: the upper bounds must increase from one bin to the next.`,
+  binsNotToOne: (key: string) => `constructs.${key}.calibration.bins: the last bin's upper bound must be 1.`,
+  pairIncomplete: (key: string, present: string, missing: string) =>
+    `constructs.${key}: ${present} is given but ${missing} is not; give both or neither.`,
+  badDate: (key: string, value: string) => `${key}: ${quote(value)} is not a valid date.`,
+  periodReversed: (from: string, to: string) => `period.from (${from}) is after period.to (${to}).`,
+  twoKeySources: () => "pseudonymise: give key_env or key_file, not both.",
+
+  // CSV structure
+  missingColumns: (path: string, columns: readonly string[], found: readonly string[]) =>
+    `${path}:1: missing required column${columns.length > 1 ? "s" : ""} ${columns.join(", ")}. The header has: ${found.join(", ")}.`,
+  duplicateColumn: (path: string, column: string) =>
+    `${path}:1: the column ${quote(column)} appears more than once in the header.`,
+  noConstructColumns: (path: string, constructs: readonly string[]) =>
+    `${path}:1: no column matches a construct of the detector card (${constructs.join(", ")}). Name each probability column after its construct key.`,
+  unknownColumns: (columns: readonly string[]) =>
+    `columns ignored (neither in the data contract nor constructs of the card): ${columns.join(", ")}`,
+  constructsWithoutColumn: (constructs: readonly string[]) =>
+    `constructs in the card with no column in the data: ${constructs.join(", ")}`,
+  strictStop: (at: string, text: string) =>
+    `${at}: ${text}. The settings ask for strictness (strict: true), so the run stops at the first rejected row.`,
+} as const;
+
+/** Plain-language text of each reason a row can be rejected, and what to do about it. */
+export const REJECT_REASONS = {
+  "wrong-field-count": "the row has a different number of fields from the header",
+  "empty-id": "a required identifier is empty",
+  "long-field": "an identifier is longer than the limit (max_field_chars)",
+  "bad-time": "window_start is not an ISO 8601 date-time such as 2026-02-03T09:15:20-06:00",
+  "no-offset": "window_start has no UTC offset (add Z or an offset such as -06:00)",
+  "bad-date": "window_start is not a real date or time of day",
+  "not-number": "a probability is not a number (leave the cell empty when there is no estimate)",
+  "out-of-range": "a probability is outside 0 to 1",
+  "bad-quote": "the row's quoting is broken (a stray or unclosed double quote)",
+  "bad-utf8": "the row has bytes that are not valid UTF-8",
+  "too-long": "the row is longer than the record size limit",
+  conflict:
+    "two or more rows with the same key (student, session and window_start; or the same student_id in the roster) disagree, so all of them are set aside",
+  "bad-integer": "a count is not a whole number of the allowed size",
+  "bad-day": "day is not a date of the form YYYY-MM-DD",
+  "unknown-construct": "construct is not a key of the detector card",
+  "inconsistent-sums":
+    "the sums do not fit the window count (sum_p between 0 and windows, sum_p2 at most sum_p, above at most windows, longest_run at most above)",
+} as const;
+
+export type RejectReason = keyof typeof REJECT_REASONS;

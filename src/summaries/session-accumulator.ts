@@ -1,0 +1,199 @@
+/**
+ * Reduces one sitting's windows, given in time order, to its session summaries. Memory per sitting
+ * is a few numbers per construct, whatever the number of windows.
+ *
+ * Sums are kept exactly: each (calibrated) probability is rounded to a whole multiple of 10^-12 (an error
+ * of at most 5e-13 per window, none for inputs of up to 12 decimals) and the multiples are added as integers, which doubles hold exactly up to
+ * 2^53, that is 9007 windows of probability 1 in one part of a sitting (50 hours of 20-second windows). So the
+ * sums do not depend on the order the rows arrived in, and the output is byte-identical.
+ *
+ * Runs: for each construct, the windows with an estimate in time order; a run is a maximal stretch
+ * of above-threshold windows each starting within 1.5 window lengths of the previous one's start
+ * (DATA-CONTRACT.md). A window without an estimate for the construct leaves a gap and so ends a run.
+ * When a sitting spans several units (or classes, schools, activities), each run is credited to the
+ * part in which it started.
+ */
+
+import { calibrator } from "../config/card.js";
+import type { Card } from "../config/types.js";
+import type { SessionSummary } from "./types.js";
+
+export const SCALE = 1e12;
+
+// Layout of a part's accumulator: six numbers per construct.
+const WINDOWS = 0;
+const SUM_P = 1;
+const SUM_P2 = 2;
+const ABOVE = 3;
+const EPISODES = 4;
+const LONGEST = 5;
+const STRIDE = 6;
+
+export interface PartIds {
+  readonly classId: string;
+  readonly schoolId: string;
+  readonly unitId: string;
+  readonly activityId: string;
+}
+
+export interface Part extends PartIds {
+  readonly key: string;
+  readonly acc: Float64Array;
+}
+
+/** What the accumulator needs of the card, prepared once. */
+export class ConstructPlan {
+  readonly keys: readonly string[];
+  readonly thresholds: Float64Array;
+  readonly minRun: Int32Array;
+  readonly calibrate: readonly (((p: number) => number) | null)[];
+  /** Largest gap between consecutive window starts, in ms, that still counts as adjacent. */
+  readonly adjacentMs: number;
+
+  constructor(card: Card, present: readonly boolean[]) {
+    const used = card.constructs.filter((_, i) => present[i]);
+    this.keys = used.map((c) => c.key);
+    this.thresholds = Float64Array.from(used.map((c) => c.threshold));
+    this.minRun = Int32Array.from(used.map((c) => c.sustainedMinWindows));
+    this.calibrate = used.map((c) => calibrator(c.calibration));
+    this.adjacentMs = 1.5 * card.windowSeconds * 1000 + 1e-6;
+  }
+}
+
+export class SessionAccumulator {
+  readonly parts: Part[] = [];
+  firstTime = Number.POSITIVE_INFINITY;
+  firstOffsetMinutes = 0;
+  lastTime = Number.NEGATIVE_INFINITY;
+  /** Windows that carried no estimate for any construct. */
+  rowsWithoutEstimate = 0;
+  private readonly runLength: Int32Array;
+  private readonly runPart: Int32Array;
+  private readonly lastEstimate: Float64Array;
+
+  constructor(
+    readonly studentId: string,
+    readonly sessionId: string,
+    private readonly plan: ConstructPlan,
+  ) {
+    const k = plan.keys.length;
+    this.runLength = new Int32Array(k);
+    this.runPart = new Int32Array(k);
+    this.lastEstimate = new Float64Array(k).fill(Number.NEGATIVE_INFINITY);
+  }
+
+  /** The index of the part with these ids, added when new. */
+  partIndex(ids: PartIds): number {
+    const key = `${ids.classId}\u0000${ids.schoolId}\u0000${ids.unitId}\u0000${ids.activityId}`;
+    for (let i = 0; i < this.parts.length; i++) if (this.parts[i]!.key === key) return i;
+    this.parts.push({ ...ids, key, acc: new Float64Array(this.plan.keys.length * STRIDE) });
+    return this.parts.length - 1;
+  }
+
+  /** Clears every sum and run (the parts are kept), before replaying the sitting in order. */
+  reset(): void {
+    for (const part of this.parts) part.acc.fill(0);
+    this.runLength.fill(0);
+    this.lastEstimate.fill(Number.NEGATIVE_INFINITY);
+    this.firstTime = Number.POSITIVE_INFINITY;
+    this.lastTime = Number.NEGATIVE_INFINITY;
+    this.rowsWithoutEstimate = 0;
+  }
+
+  /**
+   * Adds a window that starts after every window added so far. `values[k]` is the raw probability
+   * of construct k, NaN when not estimated.
+   */
+  add(time: number, offsetMinutes: number, part: number, values: Float64Array): void {
+    const plan = this.plan;
+    if (time < this.firstTime) {
+      this.firstTime = time;
+      this.firstOffsetMinutes = offsetMinutes;
+    }
+    this.lastTime = time;
+    const acc = this.parts[part]!.acc;
+    let any = false;
+    for (let k = 0; k < values.length; k++) {
+      const p = values[k]!;
+      if (Number.isNaN(p)) continue; // NaN: not estimated
+      any = true;
+      const cal = plan.calibrate[k];
+      const pc = cal ? cal(p) : p;
+      const base = k * STRIDE;
+      acc[base + WINDOWS]!++;
+      acc[base + SUM_P]! += Math.round(pc * SCALE);
+      acc[base + SUM_P2]! += Math.round(pc * pc * SCALE);
+      if (p >= plan.thresholds[k]!) {
+        acc[base + ABOVE]!++;
+        if (this.runLength[k]! > 0 && time - this.lastEstimate[k]! <= plan.adjacentMs) {
+          this.runLength[k]!++;
+        } else {
+          this.closeRun(k);
+          this.runLength[k] = 1;
+          this.runPart[k] = part;
+        }
+      } else {
+        this.closeRun(k);
+      }
+      this.lastEstimate[k] = time;
+    }
+    if (!any) this.rowsWithoutEstimate++;
+  }
+
+  private closeRun(k: number): void {
+    const length = this.runLength[k]!;
+    if (length === 0) return;
+    const acc = this.parts[this.runPart[k]!]!.acc;
+    const base = k * STRIDE;
+    if (length >= this.plan.minRun[k]!) acc[base + EPISODES]!++;
+    if (length > acc[base + LONGEST]!) acc[base + LONGEST] = length;
+    this.runLength[k] = 0;
+  }
+
+  /** Ends open runs and returns one summary per part × construct with at least one estimate. */
+  finish(): SessionSummary[] {
+    for (let k = 0; k < this.plan.keys.length; k++) this.closeRun(k);
+    const day = localDay(this.firstTime, this.firstOffsetMinutes);
+    const out: SessionSummary[] = [];
+    for (const part of this.parts) {
+      for (let k = 0; k < this.plan.keys.length; k++) {
+        const base = k * STRIDE;
+        const windows = part.acc[base + WINDOWS]!;
+        if (windows === 0) continue;
+        out.push({
+          studentId: this.studentId,
+          classId: part.classId,
+          schoolId: part.schoolId,
+          unitId: part.unitId,
+          activityId: part.activityId,
+          sessionId: this.sessionId,
+          day,
+          construct: this.plan.keys[k]!,
+          windows,
+          sumP: part.acc[base + SUM_P]! / SCALE,
+          sumP2: part.acc[base + SUM_P2]! / SCALE,
+          above: part.acc[base + ABOVE]!,
+          sustainedEpisodes: part.acc[base + EPISODES]!,
+          longestRun: part.acc[base + LONGEST]!,
+        });
+      }
+    }
+    return out;
+  }
+}
+
+/** YYYY-MM-DD of an instant seen at a UTC offset (Hinnant's civil_from_days). */
+export function localDay(time: number, offsetMinutes: number): string {
+  const z = Math.floor((time + offsetMinutes * 60000) / 86400000) + 719468;
+  const era = Math.floor(z / 146097);
+  const doe = z - era * 146097;
+  const yoe = Math.floor(
+    (doe - Math.floor(doe / 1460) + Math.floor(doe / 36524) - Math.floor(doe / 146096)) / 365,
+  );
+  const doy = doe - (365 * yoe + Math.floor(yoe / 4) - Math.floor(yoe / 100));
+  const mp = Math.floor((5 * doy + 2) / 153);
+  const d = doy - Math.floor((153 * mp + 2) / 5) + 1;
+  const m = mp < 10 ? mp + 3 : mp - 9;
+  const y = yoe + era * 400 + (m <= 2 ? 1 : 0);
+  return `${String(y).padStart(4, "0")}-${String(m).padStart(2, "0")}-${String(d).padStart(2, "0")}`;
+}

@@ -1,0 +1,6 @@
+/** The tool's version, from package.json (read once, at start). */
+import { readFileSync } from "node:fs";
+
+export const VERSION: string = (
+  JSON.parse(readFileSync(new URL("../package.json", import.meta.url), "utf8")) as { version: string }
+).version;
