@@ -1,0 +1,238 @@
+#!/usr/bin/env node
+/**
+ * engagement-report: the command line. Each command is one short function:
+ *   summarize: read → validate → summarise → write sessions.csv
+ *   check:     read → validate → summarise → print the data-quality account
+ *   build:     read → validate → summarise → write data/ and manifest.json (indicators and reports plug in here)
+ *   demo:      simulate the demo district → build
+ */
+import { mkdirSync } from "node:fs";
+import { join, resolve } from "node:path";
+import { parseArgs } from "node:util";
+import { writeDemoDistrict } from "../demo/simulate.js";
+import { type Effects, processEffects } from "../effects.js";
+import { EXIT, ReportError, UsageError } from "../errors.js";
+import { formatQuality } from "../ingest/quality-report.js";
+import { checkOutputDir, writeFileAtomically, writeFolderAtomically } from "../output/atomic.js";
+import { manifestFor } from "../output/manifest.js";
+import { type InputPaths, loadInputs, requireSessions } from "../pipeline/inputs.js";
+import { sessionsCsv } from "../summaries/sessions-csv.js";
+import { VERSION } from "../version.js";
+import { demoModeFrom } from "./demo-mode.js";
+
+interface OptionSpec {
+  readonly name: string;
+  readonly value?: string;
+  readonly help: string;
+}
+
+const COMMON: OptionSpec[] = [
+  { name: "help", help: "show this help" },
+  { name: "debug", help: "print the stack trace of an error" },
+];
+
+const COMMANDS: Record<string, { summary: string; options: OptionSpec[] }> = {
+  summarize: {
+    summary: "reduce a windows file to the sessions file of the data contract",
+    options: [
+      { name: "windows", value: "FILE", help: "detector windows (CSV), required" },
+      { name: "card", value: "FILE", help: "detector card (YAML), required" },
+      { name: "settings", value: "FILE", help: "settings (YAML)" },
+      { name: "out", value: "FILE", help: "sessions file to write, required" },
+    ],
+  },
+  check: {
+    summary: "validate the inputs and print a data-quality account; writes nothing",
+    options: [
+      { name: "windows", value: "FILE", help: "detector windows (CSV)" },
+      { name: "sessions", value: "FILE", help: "session summaries (CSV), instead of --windows" },
+      { name: "card", value: "FILE", help: "detector card (YAML), required" },
+      { name: "roster", value: "FILE", help: "roster (CSV)" },
+      { name: "settings", value: "FILE", help: "settings (YAML)" },
+    ],
+  },
+  build: {
+    summary: "build the output folder (data/sessions.csv, data/quality.json, manifest.json)",
+    options: [
+      { name: "windows", value: "FILE", help: "detector windows (CSV)" },
+      { name: "sessions", value: "FILE", help: "session summaries (CSV), instead of --windows" },
+      { name: "card", value: "FILE", help: "detector card (YAML), required" },
+      { name: "roster", value: "FILE", help: "roster (CSV)" },
+      { name: "settings", value: "FILE", help: "settings (YAML)" },
+      { name: "out", value: "DIR", help: "output folder, required" },
+    ],
+  },
+  demo: {
+    summary: "generate the invented demo district and build it",
+    options: [
+      { name: "out", value: "DIR", help: "output folder (default: demo-report)" },
+      { name: "students", value: "N", help: "students, 50 to 100000 (default 300)" },
+      { name: "seed", value: "S", help: "random seed (default 1)" },
+      { name: "null", help: "plant nothing (every student alike)" },
+    ],
+  },
+};
+
+function help(command?: string): string {
+  if (!command) {
+    const lines = [
+      `engagement-report ${VERSION}`,
+      "",
+      "Usage: engagement-report COMMAND [options]",
+      "",
+      "Commands:",
+    ];
+    for (const [name, c] of Object.entries(COMMANDS)) lines.push(`  ${name.padEnd(10)} ${c.summary}`);
+    lines.push(
+      "",
+      "Run engagement-report COMMAND --help for its options. Exit codes: 0 success, 1 unusable input, 2 wrong command line.",
+    );
+    return lines.join("\n");
+  }
+  const c = COMMANDS[command]!;
+  const lines = [`engagement-report ${command}: ${c.summary}`, "", "Options:"];
+  for (const o of [...c.options, ...COMMON])
+    lines.push(`  --${`${o.name}${o.value ? ` ${o.value}` : ""}`.padEnd(18)} ${o.help}`);
+  return lines.join("\n");
+}
+
+function parse(command: string, args: string[]): Record<string, string | boolean | undefined> {
+  const spec = COMMANDS[command]!;
+  const options: Record<string, { type: "string" | "boolean" }> = {};
+  for (const o of [...spec.options, ...COMMON]) options[o.name] = { type: o.value ? "string" : "boolean" };
+  try {
+    return parseArgs({ args, options, strict: true, allowPositionals: false }).values;
+  } catch (error) {
+    throw new UsageError(`${(error as Error).message}. Run engagement-report ${command} --help.`);
+  }
+}
+
+function need(values: Record<string, unknown>, name: string, command: string): string {
+  const v = values[name];
+  if (typeof v !== "string" || v === "")
+    throw new UsageError(`${command} needs --${name}. Run engagement-report ${command} --help.`);
+  return v;
+}
+
+function inputPaths(values: Record<string, unknown>, command: string): InputPaths {
+  const windows = values.windows as string | undefined;
+  const sessions = values.sessions as string | undefined;
+  if ((windows === undefined) === (sessions === undefined)) {
+    throw new UsageError(`${command} needs exactly one of --windows FILE or --sessions FILE.`);
+  }
+  return {
+    windows,
+    sessions,
+    card: need(values, "card", command),
+    roster: values.roster as string | undefined,
+    settings: values.settings as string | undefined,
+  };
+}
+
+async function build(paths: InputPaths, out: string, effects: Effects, command: string): Promise<void> {
+  checkOutputDir(out);
+  const inputs = loadInputs(paths, effects);
+  requireSessions(inputs);
+  await writeFolderAtomically(out, (tmp) => {
+    mkdirSync(join(tmp, "data"));
+    const { writeChunks } = atomicHelpers;
+    writeChunks(join(tmp, "data", "sessions.csv"), sessionsCsv(inputs.summaries, inputs.hasActivity));
+    writeChunks(join(tmp, "data", "quality.json"), `${JSON.stringify(inputs.quality, null, 2)}\n`);
+    const buildTime = inputs.settings.buildTime ?? effects.now().toISOString();
+    writeChunks(
+      join(tmp, "manifest.json"),
+      manifestFor(tmp, {
+        version: VERSION,
+        buildTime,
+        inputs: inputs.files,
+        card: inputs.card,
+        settings: inputs.settings,
+        command,
+      }),
+    );
+  });
+  for (const w of effects.warnings.list) effects.err(`warning: ${w}`);
+  effects.out(`wrote ${resolve(out)}`);
+}
+
+import * as atomicHelpers from "../output/atomic.js";
+
+export async function run(argv: string[], effects: Effects): Promise<number> {
+  const [command, ...args] = argv;
+  if (command === undefined || command === "--help" || command === "-h" || command === "help") {
+    effects.out(help());
+    return EXIT.ok;
+  }
+  if (command === "--version" || command === "-v") {
+    effects.out(VERSION);
+    return EXIT.ok;
+  }
+  if (!(command in COMMANDS))
+    throw new UsageError(
+      `unknown command ${JSON.stringify(command)}. Commands: ${Object.keys(COMMANDS).join(", ")}.`,
+    );
+  const values = parse(command, args);
+  if (values.help) {
+    effects.out(help(command));
+    return EXIT.ok;
+  }
+  if (command === "summarize") {
+    const out = need(values, "out", command);
+    const inputs = loadInputs(
+      {
+        windows: need(values, "windows", command),
+        card: need(values, "card", command),
+        settings: values.settings as string | undefined,
+      },
+      effects,
+    );
+    requireSessions(inputs);
+    writeFileAtomically(out, sessionsCsv(inputs.summaries, inputs.hasActivity));
+    for (const line of formatQuality(inputs.quality)) effects.err(line);
+    effects.out(`wrote ${resolve(out)}`);
+  } else if (command === "check") {
+    const inputs = loadInputs(inputPaths(values, command), effects);
+    for (const line of formatQuality(inputs.quality)) effects.out(line);
+    return inputs.summaries.length > 0 ? EXIT.ok : EXIT.input;
+  } else if (command === "build") {
+    await build(inputPaths(values, command), need(values, "out", command), effects, "build");
+  } else {
+    const out = (values.out as string | undefined) ?? "demo-report";
+    const students = values.students === undefined ? 300 : Number(values.students);
+    const seed = values.seed === undefined ? 1 : Number(values.seed);
+    checkOutputDir(out);
+    const { mkdtempSync, rmSync } = await import("node:fs");
+    const { tmpdir } = await import("node:os");
+    const dir = mkdtempSync(join(tmpdir(), "engagement-report-demo-"));
+    try {
+      const paths = await writeDemoDistrict(dir, {
+        students,
+        seed,
+        mode: demoModeFrom(values.null === true),
+      });
+      await build({ windows: paths.windows, card: paths.card, roster: paths.roster }, out, effects, "demo");
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }
+  return EXIT.ok;
+}
+
+async function main(): Promise<void> {
+  const effects = processEffects();
+  const argv = process.argv.slice(2);
+  try {
+    process.exitCode = await run(argv, effects);
+  } catch (error) {
+    if (error instanceof ReportError) {
+      effects.err(`engagement-report: ${error.message}`);
+      if (argv.includes("--debug")) effects.err(error.stack ?? "");
+      process.exitCode = error.exitCode;
+    } else {
+      effects.err(`engagement-report: internal error: ${(error as Error).stack ?? String(error)}`);
+      process.exitCode = EXIT.internal;
+    }
+  }
+}
+
+await main();
