@@ -4,11 +4,12 @@
  */
 import { readFileSync } from "node:fs";
 import { Ajv, type ErrorObject, type ValidateFunction } from "ajv";
-import { isMap, isPair, isScalar, LineCounter, type Node, parseDocument } from "yaml";
+import { isMap, isPair, isScalar, isSeq, LineCounter, type Node, parseDocument, visit } from "yaml";
 import { SettingsError } from "../errors.js";
 import { msg } from "../messages.js";
 
-const ajv = new Ajv({ allErrors: true, strict: true, allowUnionTypes: true });
+// verbose: errors carry their parent schema, which names the keys allowed beside an unknown one.
+const ajv = new Ajv({ allErrors: true, strict: true, allowUnionTypes: true, verbose: true });
 const compiled = new Map<string, ValidateFunction>();
 
 function validatorFor(schemaName: string): ValidateFunction {
@@ -43,12 +44,38 @@ export function loadYaml(path: string, what: string): LoadedYaml {
   const doc = parseDocument(text, { lineCounter, uniqueKeys: true, prettyErrors: false });
   if (doc.errors.length > 0) {
     const lines = doc.errors.slice(0, 5).map((e) => {
-      const pos = e.linePos?.[0];
-      return msg.yamlSyntax(path, pos?.line ?? 1, pos?.col ?? 1, e.message.split("\n")[0] ?? e.message);
+      // Without prettyErrors the parser gives offsets only; the line counter turns them into line:col.
+      const { line, col } = lineCounter.linePos(e.pos[0]);
+      let text = e.message.split("\n")[0] ?? e.message;
+      if (e.code === "DUPLICATE_KEY") {
+        const keyPath = keyPathAt(doc.contents, e.pos[0]);
+        if (keyPath !== null)
+          text = `${text}: the key ${JSON.stringify(keyPath.join("."))} appears more than once`;
+      }
+      return msg.yamlSyntax(path, line, col, text);
     });
     throw new SettingsError(lines.join("\n"));
   }
-  const data: unknown = doc.toJS({ maxAliasCount: 100 });
+  let data: unknown;
+  try {
+    data = doc.toJS({ maxAliasCount: 100 });
+  } catch (error) {
+    // An alias without its anchor, or aliases expanding beyond the limit: point at the first
+    // alias that does not resolve, else at the first alias.
+    let first: number | undefined;
+    let broken: number | undefined;
+    visit(doc, {
+      Alias(_, node) {
+        const at = node.range?.[0] ?? 0;
+        first ??= at;
+        if (node.resolve(doc) !== undefined) return undefined;
+        broken = at;
+        return visit.BREAK;
+      },
+    });
+    const { line, col } = lineCounter.linePos(broken ?? first ?? 0);
+    throw new SettingsError(msg.yamlSyntax(path, line, col, (error as Error).message));
+  }
   const locate: Locator = (keyPath, keyItself = false) => {
     let node: unknown = doc.contents;
     let keyNode: Node | undefined;
@@ -73,6 +100,24 @@ export function loadYaml(path: string, what: string): LoadedYaml {
     return `${path}:${line}:${col}`;
   };
   return { data, locate };
+}
+
+/** The key path of the mapping key that starts at `offset`, or null. */
+function keyPathAt(node: unknown, offset: number, prefix: readonly string[] = []): string[] | null {
+  if (isMap(node)) {
+    for (const pair of node.items) {
+      const key = isScalar(pair.key) ? String(pair.key.value) : String(pair.key);
+      if (isScalar(pair.key) && pair.key.range?.[0] === offset) return [...prefix, key];
+      const inner = keyPathAt(pair.value, offset, [...prefix, key]);
+      if (inner) return inner;
+    }
+  } else if (isSeq(node)) {
+    for (let i = 0; i < node.items.length; i++) {
+      const inner = keyPathAt(node.items[i], offset, [...prefix, String(i)]);
+      if (inner) return inner;
+    }
+  }
+  return null;
 }
 
 function describeValue(value: unknown): string {

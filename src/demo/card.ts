@@ -1,5 +1,7 @@
+import { cohenKappa } from "../stats/cohen-kappa.js";
+import { mannWhitneyAuc } from "../stats/mann-whitney-auc.js";
+import { normalQuantile } from "../stats/normal-quantile.js";
 import type { Random } from "../stats/random.js";
-import { cohenKappa } from "./cohen-kappa.js";
 import {
   AUC_FLOOR,
   CONSTRUCTS,
@@ -9,8 +11,6 @@ import {
   WINDOW_SECONDS,
 } from "./constructs.js";
 import { type DetectorModel, detectorModel, probabilityFromScore } from "./detector.js";
-import { normalQuantile } from "./normal-quantile.js";
-import { rankAuc } from "./rank-auc.js";
 
 /** One construct's entry of the detector card (DATA-CONTRACT.md), keys in the contract's order. */
 export interface DemoCardConstruct {
@@ -79,10 +79,10 @@ function cardConstruct(construct: ConstructModel, random: Random): DemoCardConst
     label: construct.label,
     kind: construct.kind,
     higher_is: construct.higherIs,
-    auc: round4(rankAuc({ positives, negatives })),
+    auc: round4(mannWhitneyAuc({ positives, negatives })),
     auc_positives: positives.length,
     auc_negatives: negatives.length,
-    kappa: round4(cohenKappa({ table })),
+    kappa: round4(cohenKappa({ table }).kappa),
     threshold,
     sensitivity: round4(truePositives / positives.length),
     specificity: round4(1 - falsePositives / negatives.length),

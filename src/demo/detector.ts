@@ -1,4 +1,4 @@
-import { normalQuantile } from "./normal-quantile.js";
+import { normalQuantile } from "../stats/normal-quantile.js";
 
 /**
  * The demo's detector: a binormal score model with a chosen AUC, and the probability it writes.
