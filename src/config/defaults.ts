@@ -19,6 +19,8 @@ export const DEFAULT_SETTINGS: Settings = {
   audiences: ["check-ins", "content", "support", "about"],
   evidence: { minMinutes: 30, minSessions: 3, minDays: 2, minStudents: 10 },
   suppressionSize: 10,
+  flags: { studentRatio: 1.3, groupRatio: 1.5, unitQ: 0.05 },
+  replicates: 1000,
   pseudonymise: { keyEnv: null, keyFile: null },
   buildTime: null,
   seed: 20260101,
@@ -44,6 +46,14 @@ export const DEFAULT_REASONS: Readonly<Record<string, string>> = {
     "10 students for a unit figure, the most common minimum group size in education statistics (NCES 2011-603).",
   suppressionSize:
     "10 students, the most common minimum group size in state practice (NCES 2011-603, SLDS Technical Brief 3, 2010); the tool refuses values below 5.",
+  "flags.studentRatio":
+    "1.3 times peers on the same content, for the whole plausible range (never the point alone): about a third more is a difference a counselor can notice, and requiring the whole range keeps false flags rare. In our simulations (README, methods) students whose true ratio is below 1.2 were flagged under 0.1% of the time while about 7 in 10 students with planted high boredom were found. Our choice, not a published standard.",
+  "flags.groupRatio":
+    "1.5, the same margin as for students, so that a class or school is marked only when the whole plausible range shows half as much again as comparable groups on the same content. Our choice, not a published standard.",
+  "flags.unitQ":
+    "0.05: Benjamini and Hochberg's (1995) false-discovery rate, so that among units marked for review about 1 in 20 at most is expected to be a chance finding.",
+  replicates:
+    "1000 resamples of students: the usual number for percentile intervals at 95% (Efron and Tibshirani 1993, section 13.3); more changes the limits only in the third digit.",
   "pseudonymise.keyEnv": "Off: identifiers are shown as given unless a key is supplied.",
   "pseudonymise.keyFile": "Off: identifiers are shown as given unless a key is supplied.",
   buildTime: "Empty: the manifest records the actual build time; set it to make builds byte-identical.",

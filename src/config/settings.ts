@@ -6,7 +6,7 @@ import { SettingsError } from "../errors.js";
 import { msg } from "../messages.js";
 import { DEFAULT_SETTINGS } from "./defaults.js";
 import type { Audience, Settings } from "./types.js";
-import { loadYaml, validateWithSchema } from "./yaml-schema.js";
+import { type Locator, loadYaml, validateWithSchema } from "./yaml-schema.js";
 
 export interface SettingsInput {
   title?: string;
@@ -16,6 +16,8 @@ export interface SettingsInput {
   audiences?: Audience[];
   evidence?: { min_minutes?: number; min_sessions?: number; min_days?: number; min_students?: number };
   suppression_size?: number;
+  flags?: { student_ratio?: number; group_ratio?: number; unit_q?: number };
+  replicates?: number;
   pseudonymise?: { key_env?: string; key_file?: string };
   build_time?: string | null;
   seed?: number;
@@ -29,21 +31,24 @@ function validDate(text: string): boolean {
   return date.getUTCFullYear() === y && date.getUTCMonth() === m - 1 && date.getUTCDate() === d;
 }
 
-export function settingsFromInput(input: SettingsInput, where = "settings"): Settings {
+/** `where` names the source in messages: a fixed text, or a locator giving file:line:col of a key path. */
+export function settingsFromInput(input: SettingsInput, where: string | Locator = "settings"): Settings {
+  const at = (path: readonly string[], keyItself = false): string =>
+    typeof where === "string" ? where : where(path, keyItself);
   const d = DEFAULT_SETTINGS;
   const period = { from: input.period?.from ?? d.period.from, to: input.period?.to ?? d.period.to };
   for (const [key, value] of Object.entries(period)) {
     if (value !== null && !validDate(value))
-      throw new SettingsError(`${where}: ${msg.badDate(`period.${key}`, value)}`);
+      throw new SettingsError(`${at(["period", key])}: ${msg.badDate(`period.${key}`, value)}`);
   }
   if (period.from !== null && period.to !== null && period.from > period.to) {
-    throw new SettingsError(`${where}: ${msg.periodReversed(period.from, period.to)}`);
+    throw new SettingsError(`${at(["period", "from"])}: ${msg.periodReversed(period.from, period.to)}`);
   }
   if (input.pseudonymise?.key_env !== undefined && input.pseudonymise.key_file !== undefined) {
-    throw new SettingsError(`${where}: ${msg.twoKeySources()}`);
+    throw new SettingsError(`${at(["pseudonymise", "key_file"], true)}: ${msg.twoKeySources()}`);
   }
   if (input.build_time && Number.isNaN(Date.parse(input.build_time))) {
-    throw new SettingsError(`${where}: ${msg.badDate("build_time", input.build_time)}`);
+    throw new SettingsError(`${at(["build_time"])}: ${msg.badDate("build_time", input.build_time)}`);
   }
   return {
     title: input.title ?? d.title,
@@ -58,6 +63,12 @@ export function settingsFromInput(input: SettingsInput, where = "settings"): Set
       minStudents: input.evidence?.min_students ?? d.evidence.minStudents,
     },
     suppressionSize: input.suppression_size ?? d.suppressionSize,
+    flags: {
+      studentRatio: input.flags?.student_ratio ?? d.flags.studentRatio,
+      groupRatio: input.flags?.group_ratio ?? d.flags.groupRatio,
+      unitQ: input.flags?.unit_q ?? d.flags.unitQ,
+    },
+    replicates: input.replicates ?? d.replicates,
     pseudonymise: {
       keyEnv: input.pseudonymise?.key_env ?? d.pseudonymise.keyEnv,
       keyFile: input.pseudonymise?.key_file ?? d.pseudonymise.keyFile,
@@ -74,7 +85,7 @@ export function loadSettings(path: string | undefined): Settings {
   const loaded = loadYaml(path, "settings");
   if (loaded.data === null || loaded.data === undefined) return DEFAULT_SETTINGS;
   validateWithSchema(loaded, "settings.schema.json", "the settings");
-  return settingsFromInput(loaded.data as SettingsInput, path);
+  return settingsFromInput(loaded.data as SettingsInput, loaded.locate);
 }
 
 /** The settings as used, in the file's own key names (for the manifest). */
@@ -92,6 +103,8 @@ export function settingsAsUsed(s: Settings): Record<string, unknown> {
       min_students: s.evidence.minStudents,
     },
     suppression_size: s.suppressionSize,
+    flags: { student_ratio: s.flags.studentRatio, group_ratio: s.flags.groupRatio, unit_q: s.flags.unitQ },
+    replicates: s.replicates,
     pseudonymise: { key_env: s.pseudonymise.keyEnv, key_file: s.pseudonymise.keyFile },
     build_time: s.buildTime,
     seed: s.seed,

@@ -48,6 +48,17 @@ export interface Settings {
     readonly minStudents: number;
   };
   readonly suppressionSize: number;
+  /** The rules on the interval that turn a figure into a flag (never the point estimate alone). */
+  readonly flags: {
+    /** `check-in` when a student's whole plausible range of the ratio to peers lies at or beyond this. */
+    readonly studentRatio: number;
+    /** `elevated` when a class's or school's whole plausible range lies at or beyond this. */
+    readonly groupRatio: number;
+    /** `review` when a unit's content effect has a Benjamini–Hochberg q-value below this. */
+    readonly unitQ: number;
+  };
+  /** Resamples of students for the content effects' intervals. */
+  readonly replicates: number;
   readonly pseudonymise: { readonly keyEnv: string | null; readonly keyFile: string | null };
   readonly buildTime: string | null;
   readonly seed: number;

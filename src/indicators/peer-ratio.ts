@@ -1,0 +1,102 @@
+import { fiellerInterval } from "../stats/fieller-interval.js";
+import type { Cell } from "./collect.js";
+import type { Correction } from "./correction.js";
+import type { Estimate } from "./types.js";
+
+/**
+ * Ratio to peers on the same content, by indirect standardisation on the corrected scale.
+ *
+ * Each of the subject's windows in unit u expects the mean signal m₋,u that everyone else showed in
+ * that unit (the subject left out). On the corrected scale the share is (m − μ₀)/(μ₁ − μ₀), so
+ *   ratio = Σ_u (s_u − μ₀n_u) / Σ_u n_u(m₋,u − μ₀) = A / B:
+ * μ₁ − μ₀ cancels (its uncertainty does not matter here) while μ₀ does not, and a ratio of raw mean
+ * probabilities (μ₀ = 0) would be squashed toward 1 by the detector's error. In relative mode
+ * (no validation figures) μ₀ = 0 and the ratio is the raw one, which understates differences.
+ * Interval: Fieller's (fieller-interval.ts) with Var A = N²(V_own + v₀), Var B = Σn_u²·V_u + N²v₀
+ * and Cov = N²v₀, where V_own is the subject's clustered variance of its mean (cluster-mean.ts),
+ * V_u that of the peers' mean in unit u (students as clusters), v₀ = Var(μ̂₀). Units where the subject
+ * has no peers are left out of both sums. The lower limit is kept at 0 or more: a share cannot be
+ * negative. No ratio (null) when the peers' expected share is not clearly above zero.
+ */
+export interface PeerRatioInput {
+  readonly own: ReadonlyMap<string, Cell>;
+  readonly ownMeanVariance: number;
+  readonly totals: ReadonlyMap<string, Cell>;
+  /** Variance of the peers' mean signal per unit (students as clusters). */
+  readonly unitVariance: ReadonlyMap<string, number>;
+  readonly correction: Correction;
+  readonly critical: number;
+}
+
+export interface PeerRatio {
+  readonly ratio: Estimate | null;
+  /** The peers' mean signal expected on the subject's windows (Σn_u·m₋,u / N). */
+  readonly expectedMean: number | null;
+  readonly windows: number;
+}
+
+export function peerRatio(input: PeerRatioInput): PeerRatio {
+  const { own, totals, correction } = input;
+  const mu0 = correction.offset;
+  let n = 0;
+  let observed = 0;
+  let expected = 0;
+  let varExpected = 0;
+  for (const [unitId, c] of own) {
+    const total = totals.get(unitId);
+    if (!total || c.n <= 0) continue;
+    const peerN = total.n - c.n;
+    if (peerN <= 0) continue;
+    const peerMean = (total.s - c.s) / peerN;
+    n += c.n;
+    observed += c.s;
+    expected += c.n * peerMean;
+    varExpected += c.n * c.n * (input.unitVariance.get(unitId) ?? 0);
+  }
+  if (n === 0) return { ratio: null, expectedMean: null, windows: 0 };
+  const a = observed - mu0 * n;
+  const b = expected - mu0 * n;
+  const v0 = correction.offsetVariance * n * n;
+  const f = fiellerInterval({
+    numerator: a,
+    denominator: b,
+    numeratorVariance: n * n * input.ownMeanVariance + v0,
+    denominatorVariance: varExpected + v0,
+    covariance: v0,
+    critical: input.critical,
+  });
+  if (f.kind !== "bounded" || !(b > 0)) return { ratio: null, expectedMean: expected / n, windows: n };
+  return {
+    ratio: { value: Math.max(0, f.ratio), low: Math.max(0, f.lower), high: Math.max(0, f.upper) },
+    expectedMean: expected / n,
+    windows: n,
+  };
+}
+
+/**
+ * Variance of each unit's mean signal with subjects (students) as clusters: the ratio-estimator
+ * linearisation k/(k − 1)·Σ(s_i − m·n_i)²/N² (Cochran 1977, §6.3).
+ */
+export function unitMeanVariances(
+  subjects: Iterable<ReadonlyMap<string, Cell>>,
+  totals: ReadonlyMap<string, Cell>,
+): Map<string, number> {
+  const sums = new Map<string, { k: number; r2: number }>();
+  for (const units of subjects) {
+    for (const [unitId, c] of units) {
+      const total = totals.get(unitId);
+      if (!total || total.n === 0) continue;
+      const r = c.s - (total.s / total.n) * c.n;
+      const e = sums.get(unitId) ?? { k: 0, r2: 0 };
+      e.k++;
+      e.r2 += r * r;
+      sums.set(unitId, e);
+    }
+  }
+  const out = new Map<string, number>();
+  for (const [unitId, e] of sums) {
+    const total = totals.get(unitId) as Cell;
+    out.set(unitId, e.k > 1 ? ((e.k / (e.k - 1)) * e.r2) / (total.n * total.n) : 0);
+  }
+  return out;
+}

@@ -1,0 +1,68 @@
+/**
+ * The reason sentences: every row's status in plain words, stating its evidence. One module, so
+ * that the wording is consistent and can be read and reviewed in one place (STYLE.md, habit 11).
+ */
+import type { Estimate } from "./types.js";
+
+export function plural(n: number, one: string, many = `${one}s`): string {
+  return `${n.toLocaleString("en-US")} ${n === 1 ? one : many}`;
+}
+
+/** A ratio as read aloud: one decimal from 1 up, two below. */
+export function ratioText(x: number): string {
+  if (!Number.isFinite(x)) return "not bounded";
+  return x >= 1 ? x.toFixed(1) : x.toFixed(2);
+}
+
+/** A share as a whole percentage, "under 1%" and "over 99%" at the ends. */
+export function percentText(x: number): string {
+  const p = x * 100;
+  if (p > 0 && p < 0.5) return "under 1%";
+  if (p < 100 && p > 99.5) return "over 99%";
+  return `${Math.round(p)}%`;
+}
+
+export function lower(label: string): string {
+  return label.length > 0 ? label[0]!.toLowerCase() + label.slice(1) : label;
+}
+
+export const reasons = {
+  detectorTooWeak: (label: string, auc: number, floor: number): string =>
+    `The ${lower(label)} detector's A' is ${auc.toFixed(2)}, below the floor of ${floor.toFixed(2)}: too close to chance (0.50) to judge by, so no figure is shown.`,
+
+  studentTooLittle: (o: {
+    sessions: number;
+    days: number;
+    minutes: number;
+    minSessions: number;
+    minDays: number;
+    minMinutes: number;
+  }): string =>
+    `Only ${plural(o.sessions, "session")} on ${plural(o.days, "day")} (${plural(Math.round(o.minutes), "minute")} observed); a figure needs at least ${plural(o.minSessions, "session")} on ${plural(o.minDays, "day")} and ${o.minMinutes} minutes.`,
+
+  evidence: (sessions: number, days: number): string =>
+    `Across ${plural(sessions, "session")} on ${plural(days, "day")}`,
+
+  ratio: (label: string, r: Estimate, peers: string): string =>
+    `the estimates show ${lower(label)} about ${ratioText(r.value)} times as often as in ${peers} on the same units; plausible range ${ratioText(r.low)} to ${ratioText(r.high)}`,
+
+  noRatio: (label: string, peers: string): string =>
+    `${peers} on the same units showed too little ${lower(label)} for a comparison`,
+
+  share: (s: Estimate): string =>
+    `about ${percentText(s.value)} of observed time (plausible range ${percentText(s.low)} to ${percentText(s.high)})`,
+
+  flagged: (direction: "higher" | "lower", line: number): string =>
+    `The whole range lies ${direction === "higher" ? "above" : "below"} ${ratioText(line)} times, the line for a check-in.`,
+
+  nearLine: (direction: "higher" | "lower"): string =>
+    `May be ${direction}; not enough yet to suggest a check-in.`,
+
+  usual: "Within the usual range.",
+
+  sustained: (perHour: number, peerPerHour: number, minutes: number): string =>
+    `Sustained episodes (${minutes} minutes or more): ${perHour.toFixed(1)} per hour, against ${peerPerHour.toFixed(1)} for peers on the same units.`,
+
+  relative:
+    "Relative mode: the detector card has no validation figures, so no share of time is shown and the ratio understates real differences.",
+};

@@ -1,0 +1,72 @@
+import type { GroupLevel } from "./types.js";
+
+/**
+ * Which groups are withheld, the same for every construct.
+ *
+ * Primary: fewer distinct students than the suppression size (settings; never below 5).
+ * Complementary: a shown parent (a school, or the district) is a weighted total of its children; if
+ * exactly one child is withheld, its figure could be worked out from the parent and its shown
+ * siblings, so the smallest shown sibling is withheld as well (the classic rule of at least two
+ * withheld cells per total; NCES 2011-603, Statistical Methods for Protecting Personally Identifiable
+ * Information in Aggregate Reporting, technical brief 3). Checked for classes within each school
+ * and for schools within the district, until nothing changes.
+ */
+export interface Suppression {
+  withheld(level: GroupLevel, id: string): boolean;
+  /** Null when shown, else the sentence that says why. */
+  reason(level: GroupLevel, id: string): string | null;
+}
+
+export interface GroupSize {
+  readonly level: GroupLevel;
+  readonly id: string;
+  readonly parentId: string;
+  /** Fewest distinct students over the constructs. */
+  readonly students: number;
+}
+
+export function suppressionFor(groups: readonly GroupSize[], size: number): Suppression {
+  const key = (level: GroupLevel, id: string) => `${level}\u0000${id}`;
+  const why = new Map<string, string>();
+  for (const g of groups) {
+    if (g.students < size) {
+      why.set(
+        key(g.level, g.id),
+        `Fewer than ${size} students: withheld to protect the students' privacy.`,
+      );
+    }
+  }
+  const complementary = "Withheld so that a withheld neighbouring group cannot be worked out from the totals.";
+  const children = (parentLevel: GroupLevel, childLevel: GroupLevel) => {
+    const byParent = new Map<string, GroupSize[]>();
+    for (const g of groups) {
+      if (g.level !== childLevel) continue;
+      byParent.set(g.parentId, [...(byParent.get(g.parentId) ?? []), g]);
+    }
+    return { parentLevel, childLevel, byParent };
+  };
+  const families = [children("school", "class"), children("district", "school")];
+  let changed = true;
+  while (changed) {
+    changed = false;
+    for (const f of families) {
+      for (const [parentId, list] of f.byParent) {
+        if (why.has(key(f.parentLevel, parentId))) continue;
+        const hidden = list.filter((g) => why.has(key(g.level, g.id)));
+        if (hidden.length !== 1) continue;
+        const shown = list
+          .filter((g) => !why.has(key(g.level, g.id)))
+          .sort((a, b) => a.students - b.students || (a.id < b.id ? -1 : 1));
+        const next = shown[0];
+        if (next) {
+          why.set(key(next.level, next.id), complementary);
+          changed = true;
+        }
+      }
+    }
+  }
+  return {
+    withheld: (level, id) => why.has(key(level, id)),
+    reason: (level, id) => why.get(key(level, id)) ?? null,
+  };
+}
