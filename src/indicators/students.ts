@@ -124,7 +124,7 @@ function oneStudent(
   const flagged = r !== null && beyondLine(ctx.direction, r.low, r.high, line);
   const nearLine = r !== null && !flagged && pointBeyond(ctx.direction, r.value, line);
   const parts = [reasons.evidence(sessions, days)];
-  parts.push(r ? reasons.ratio(construct.label, r, "other students") : reasons.noRatio(construct.label, "Other students"));
+  parts.push(r ? reasons.ratio(construct.label, r, "other students") : reasons.noRatio(construct.label, "other students"));
   let text = `${parts.join(", ")}.`;
   if (share) text += ` That is ${reasons.share(share)}.`;
   text += ` ${flagged ? reasons.flagged(ctx.direction, line) : nearLine ? reasons.nearLine(ctx.direction) : reasons.usual}`;
