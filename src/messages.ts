@@ -22,8 +22,13 @@ export const msg = {
     `cannot read the ${what} ${path}: ${reason(error)}. Check the path and that the file is readable.`,
   emptyFile: (path: string, what: string) =>
     `${path}: the ${what} is empty. It needs a header row and at least one data row.`,
-  headerOnly: (path: string, what: string) => `${path}: the ${what} has a header row but no data rows.`,
+  headerOnly: (path: string, what: string) =>
+    `${path}: the ${what} has a header row but no data rows. Check that the export finished and wrote its rows.`,
   emptyYaml: (path: string, what: string) => `${path}: the ${what} is empty.`,
+  notUtf8Text: (path: string, what: string, line: number, col: number) =>
+    `${path}:${line}:${col}: the ${what} is not UTF-8 text (the bytes here are not valid UTF-8; is it the right file?). Give a YAML file saved as UTF-8.`,
+  noUsableRows: () =>
+    "no usable rows: every data row was rejected or lies outside the settings' period; the account above says why and where.",
   yamlSyntax: (path: string, line: number, col: number, text: string) =>
     `${path}:${line}:${col}: not valid YAML: ${text}`,
 
@@ -46,7 +51,7 @@ export const msg = {
 
   // CSV structure
   missingColumns: (path: string, columns: readonly string[], found: readonly string[]) =>
-    `${path}:1: missing required column${columns.length > 1 ? "s" : ""} ${columns.join(", ")}. The header has: ${found.join(", ")}.`,
+    `${path}:1: missing required column${columns.length > 1 ? "s" : ""} ${columns.join(", ")}. The header has: ${found.join(", ")}. Add ${columns.length > 1 ? "them" : "it"} to the header row, or rename the column that holds ${columns.length > 1 ? "each" : "it"} (names are matched in lower case).`,
   duplicateColumn: (path: string, column: string) =>
     `${path}:1: the column ${quote(column)} appears more than once in the header.`,
   noConstructColumns: (path: string, constructs: readonly string[]) =>
@@ -55,23 +60,40 @@ export const msg = {
     `columns ignored (neither in the data contract nor constructs of the card): ${columns.join(", ")}`,
   constructsWithoutColumn: (constructs: readonly string[]) =>
     `constructs in the card with no column in the data: ${constructs.join(", ")}`,
+  /** The value and detail shown for a row whose field count differs from the header's. */
+  fieldCount: (count: number, header: readonly string[]) => ({
+    value: `${count} fields, header has ${header.length}`,
+    detail:
+      count < header.length
+        ? `the row ends after ${header[count - 1] ?? "its first field"}, so ${header.slice(count).join(", ")} ${header.length - count > 1 ? "are" : "is"} missing`
+        : "the first extra field starts here",
+  }),
+  /** The value shown for each of the rows that share a key but disagree. */
+  conflictWith: (line: number, lines: readonly number[]) =>
+    `same key as line${lines.length > 2 ? "s" : ""} ${lines.filter((l) => l !== line).join(", ")}, with different values`,
   strictStop: (at: string, text: string) =>
     `${at}: ${text}. The settings ask for strictness (strict: true), so the run stops at the first rejected row.`,
 } as const;
 
 /** Plain-language text of each reason a row can be rejected, and what to do about it. */
 export const REJECT_REASONS = {
-  "wrong-field-count": "the row has a different number of fields from the header",
-  "empty-id": "a required identifier is empty",
-  "long-field": "an identifier is longer than the limit (max_field_chars)",
+  "wrong-field-count":
+    "the row has a different number of fields from the header (look for a comma inside a value that is not quoted, or a line cut short)",
+  "empty-id": "a required identifier is empty (fill it in, or remove the row)",
+  "long-field":
+    "an identifier is longer than the limit (max_field_chars); usually a broken quote or a wrong column, else raise max_field_chars in the settings",
   "bad-time": "window_start is not an ISO 8601 date-time such as 2026-02-03T09:15:20-06:00",
   "no-offset": "window_start has no UTC offset (add Z or an offset such as -06:00)",
   "bad-date": "window_start is not a real date or time of day",
-  "not-number": "a probability is not a number (leave the cell empty when there is no estimate)",
-  "out-of-range": "a probability is outside 0 to 1",
-  "bad-quote": "the row's quoting is broken (a stray or unclosed double quote)",
-  "bad-utf8": "the row has bytes that are not valid UTF-8",
-  "too-long": "the row is longer than the record size limit",
+  "not-number":
+    "a value that must be a number is not one (write plain decimals such as 0.42; leave a probability empty when there is no estimate)",
+  "out-of-range":
+    "a probability is outside 0 to 1 (the column must hold the detector's probability, not a percentage or a score)",
+  "bad-quote":
+    "the row's quoting is broken: a stray or unclosed double quote (quote the whole field and double each quote inside it)",
+  "bad-utf8": "the row has bytes that are not valid UTF-8 (save the file as UTF-8)",
+  "too-long":
+    "the row is longer than the record size limit (usually a missing line ending or a broken quote)",
   conflict:
     "two or more rows with the same key (student, session and window_start; or the same student_id in the roster) disagree, so all of them are set aside",
   "bad-integer": "a count is not a whole number of the allowed size",

@@ -2,6 +2,7 @@
  * Reads a YAML file and validates it against a JSON Schema shipped in `schemas/`. Every problem is
  * reported with file:line:column, the key path, what was expected and the value found.
  */
+import { isUtf8 } from "node:buffer";
 import { readFileSync } from "node:fs";
 import { Ajv, type ErrorObject, type ValidateFunction } from "ajv";
 import { isMap, isPair, isScalar, isSeq, LineCounter, type Node, parseDocument, visit } from "yaml";
@@ -31,11 +32,21 @@ export interface LoadedYaml {
 }
 
 export function readTextFile(path: string, what: string): string {
+  let bytes: Buffer;
   try {
-    return readFileSync(path, "utf8");
+    bytes = readFileSync(path);
   } catch (error) {
     throw new SettingsError(msg.cannotRead(path, what, error));
   }
+  // A binary or wrongly encoded file would be decoded with replacement characters and end in a
+  // schema message quoting that junk; say plainly that it is not UTF-8 text, and where it stops being.
+  if (!isUtf8(bytes)) {
+    const text = bytes.toString("utf8");
+    const bad = text.indexOf("\uFFFD");
+    const before = text.slice(0, Math.max(0, bad)).split("\n");
+    throw new SettingsError(msg.notUtf8Text(path, what, before.length, [...before.at(-1)!].length + 1));
+  }
+  return bytes.toString("utf8");
 }
 
 export function loadYaml(path: string, what: string): LoadedYaml {

@@ -25,7 +25,16 @@ export interface RecordView {
   readonly count: number;
   /** Physical line (1-based) where the record starts. */
   readonly line: number;
-  /** Character column (1-based) where field i starts in the file; valid during the callback only. */
+  /**
+   * Physical line (1-based) where field i starts: the record's line, or a later one when a quoted
+   * field before it holds a line break. Valid during the callback only.
+   */
+  lineOf(i: number): number;
+  /**
+   * Character column (1-based) where field i starts, on the line `lineOf(i)`; valid during the
+   * callback only. `column(count)` is the column just past the record's last character (where a
+   * missing field would have started), for messages about rows with too few fields.
+   */
   column(i: number): number;
   /** Field i as text. */
   text(i: number): string;
@@ -37,6 +46,8 @@ export interface RecordProblem {
   readonly kind: RecordProblemKind;
   readonly line: number;
   readonly column: number;
+  /** Index of the field where the problem is, when known (to name its column). */
+  readonly field?: number;
   readonly detail: string;
   readonly value: string;
 }
@@ -69,15 +80,26 @@ class Reader implements RecordView {
   private origBuf: Buffer;
   private lineStart = 0;
   private ascii = true;
+  /** The record spans several physical lines (a quoted field holds a line break). */
+  private multiline = false;
 
   constructor(chunk: Buffer) {
     this.buf = chunk;
     this.origBuf = chunk;
   }
 
+  lineOf(i: number): number {
+    if (!this.multiline) return this.line;
+    const at = this.origStarts[Math.min(i, this.count)]!;
+    let line = this.line;
+    for (let j = this.lineStart; j < at; j++) if (this.origBuf[j] === 10) line++;
+    return line;
+  }
+
   column(i: number): number {
     const at = this.origStarts[Math.min(i, this.count)]!;
-    if (this.ascii) return at - this.lineStart + 1;
+    // Bytes are characters in ASCII; but a line break inside the record restarts the count.
+    if (this.ascii && !this.multiline) return at - this.lineStart + 1;
     // Characters, not bytes: count the UTF-8 lead bytes before the field.
     let chars = 0;
     let lineStart = this.lineStart;
@@ -95,13 +117,16 @@ class Reader implements RecordView {
     return this.buf.toString("utf8", this.starts[i]!, this.ends[i]!);
   }
 
-  setFast(chunk: Buffer, lineStart: number, line: number, ascii: boolean): void {
+  setFast(chunk: Buffer, lineStart: number, line: number, ascii: boolean, multiline = false): void {
     this.buf = chunk;
     this.origBuf = chunk;
     this.lineStart = lineStart;
     this.line = line;
     this.ascii = ascii;
+    this.multiline = multiline;
     this.origStarts.set(this.starts.subarray(0, this.count));
+    // On the fast path the field ends are file offsets too: the last one is where the record ends.
+    if (this.count > 0) this.origStarts[this.count] = this.ends[this.count - 1]!;
   }
 
   setDecoded(
@@ -110,6 +135,7 @@ class Reader implements RecordView {
     lineStart: number,
     line: number,
     ascii: boolean,
+    multiline: boolean,
   ): void {
     const scratch = Buffer.from(fields.join(""), "utf8");
     let at = 0;
@@ -126,10 +152,16 @@ class Reader implements RecordView {
     this.lineStart = lineStart;
     this.line = line;
     this.ascii = ascii;
+    this.multiline = multiline;
   }
 
   setOrigStart(i: number, at: number): void {
     this.origStarts[i] = at;
+  }
+
+  /** Where a decoded record ends in the file (for `column(count)`). */
+  setOrigEnd(at: number): void {
+    this.origStarts[this.count] = at;
   }
 }
 
@@ -140,7 +172,7 @@ class Reader implements RecordView {
 type QuotedScan =
   | { kind: "ok"; end: number; next: number; lines: number; fieldStarts: number[] }
   | { kind: "more" }
-  | { kind: "error"; at: number; detail: string };
+  | { kind: "error"; at: number; field: number; detail: string };
 
 function scanQuoted(buf: Buffer, pos: number, len: number, eof: boolean, maxBytes: number): QuotedScan {
   const fieldStarts = [pos];
@@ -149,27 +181,48 @@ function scanQuoted(buf: Buffer, pos: number, len: number, eof: boolean, maxByte
   let atFieldStart = true;
   let inQuotes = false;
   let quoteOpenedAt = -1;
+  // The quote that was open at the end of the record's first physical line, and that line's end.
+  let spanningQuoteAt = -1;
+  let spanningField = 0;
+  let firstLineEnd = -1;
+  /**
+   * A problem found past the first physical line is reported where the record's first line went
+   * wrong: at the quote that carried the record onto the next line. Only that first line is given
+   * up (reading resumes on the next line), so the location must be on it; and in practice the cause
+   * is nearly always that quote left unclosed, not the later text where the scan noticed.
+   */
+  const error = (at: number, detail: string): QuotedScan => {
+    if (firstLineEnd >= 0 && at > firstLineEnd) {
+      return {
+        kind: "error",
+        at: spanningQuoteAt,
+        field: spanningField,
+        detail: `a quoted field opens here and is not closed on this line, so the row runs on for ${lines} more line(s) and breaks there (${detail.replace(/ \(.*\)$/, "")}); close the quote on this line, or double each quote inside the field`,
+      };
+    }
+    return { kind: "error", at, field: fieldStarts.length - 1, detail };
+  };
   while (true) {
     if (i - pos > maxBytes) {
       return inQuotes
-        ? { kind: "error", at: quoteOpenedAt, detail: `quoted field never closed within ${maxBytes} bytes` }
-        : { kind: "error", at: pos, detail: `record longer than ${maxBytes} bytes` };
+        ? error(quoteOpenedAt, `quoted field never closed within ${maxBytes} bytes`)
+        : error(pos, `record longer than ${maxBytes} bytes`);
     }
     if (i >= len) {
       if (!eof) return { kind: "more" };
-      if (inQuotes)
-        return {
-          kind: "error",
-          at: quoteOpenedAt,
-          detail: "quoted field never closed before the end of the file",
-        };
-      return { kind: "ok", end: len, next: len, lines, fieldStarts };
+      if (inQuotes) return error(quoteOpenedAt, "quoted field never closed before the end of the file");
+      // A lone CR at the very end of the file is read as a line ending whose LF was cut off, as on
+      // the fast path (which strips it too), so both paths give the same fields.
+      const end = len > pos && buf[len - 1] === 13 ? len - 1 : len;
+      return { kind: "ok", end, next: len, lines, fieldStarts };
     }
     const b = buf[i]!;
     if (inQuotes) {
       if (b === 34) {
         if (i + 1 >= len && !eof) return { kind: "more" };
-        if (buf[i + 1] === 34) {
+        // Bounded by len: past it the buffer holds stale bytes (allocUnsafe, earlier chunks), and a
+        // stale quote there made a closing quote at the end of the file look like a doubled one.
+        if (i + 1 < len && buf[i + 1] === 34) {
           i += 2;
           continue;
         }
@@ -178,13 +231,14 @@ function scanQuoted(buf: Buffer, pos: number, len: number, eof: boolean, maxByte
         const endOfLine =
           i + 1 >= len || after === 10 || (after === 13 && (i + 2 >= len || buf[i + 2] === 10));
         if (after !== 44 && !endOfLine) {
-          return {
-            kind: "error",
-            at: i + 1,
-            detail: "text after a closing quote (a quote inside a field must be doubled)",
-          };
+          return error(i + 1, "text after a closing quote (a quote inside a field must be doubled)");
         }
       } else if (b === 10) {
+        if (lines === 0) {
+          firstLineEnd = i;
+          spanningQuoteAt = quoteOpenedAt;
+          spanningField = fieldStarts.length - 1;
+        }
         lines++;
       }
       i++;
@@ -202,11 +256,7 @@ function scanQuoted(buf: Buffer, pos: number, len: number, eof: boolean, maxByte
     }
     if (b === 34) {
       if (!atFieldStart)
-        return {
-          kind: "error",
-          at: i,
-          detail: "a quote inside an unquoted field (quote the whole field and double the quote)",
-        };
+        return error(i, "a quote inside an unquoted field (quote the whole field and double the quote)");
       inQuotes = true;
       quoteOpenedAt = i;
     }
@@ -222,12 +272,26 @@ function utf8Problem(view: Reader, buf: Buffer): RecordProblem | null {
         kind: "bad-utf8",
         line: view.line,
         column: view.column(f),
+        field: f,
         detail: "bytes that are not valid UTF-8 (save the file as UTF-8)",
         value: buf.toString("latin1", view.starts[f]!, Math.min(view.ends[f]!, view.starts[f]! + 40)),
       };
     }
   }
   return null;
+}
+
+/** Where field f of a scanned record ends (before its comma, or at the record's end). */
+function fieldEndOf(fieldStarts: readonly number[], f: number, end: number): number {
+  return f + 1 < fieldStarts.length ? fieldStarts[f + 1]! - 1 : end;
+}
+
+/** Index of the first field of a quoted record whose bytes are not valid UTF-8, or -1. */
+function invalidUtf8Field(buf: Buffer, fieldStarts: readonly number[], end: number): number {
+  for (let f = 0; f < fieldStarts.length; f++) {
+    if (!isUtf8(buf.subarray(fieldStarts[f]!, fieldEndOf(fieldStarts, f, end)))) return f;
+  }
+  return -1;
 }
 
 /** Reads every record of a file and hands it to the sink. Synchronous: the fastest way in Node. */
@@ -386,6 +450,7 @@ function readRecords(read: ReadInto, sink: RecordSink, options: ReadOptions): vo
         kind: "bad-quote",
         line,
         column: view.column(0),
+        field: scan.field,
         detail: scan.detail,
         value: buf.toString("utf8", Math.max(pos, scan.at - 20), Math.min(contentEnd, scan.at + 20)),
       });
@@ -397,24 +462,41 @@ function readRecords(read: ReadInto, sink: RecordSink, options: ReadOptions): vo
     const raw = buf.subarray(pos, scan.end);
     let nonAscii = false;
     for (let i = 0; i < raw.length; i++) if (raw[i]! > 127) nonAscii = true;
-    if (nonAscii && !isUtf8(raw)) {
+    const badField = nonAscii ? invalidUtf8Field(buf, scan.fieldStarts, scan.end) : -1;
+    if (badField >= 0) {
+      // Locate the field, as on the fast path, so the message can name its column.
+      const at = scan.fieldStarts[badField]!;
+      view.count = 0;
+      view.setFast(buf, pos, line, false, scan.lines > 0);
+      view.setOrigStart(0, at);
       sink.problem({
         kind: "bad-utf8",
-        line,
-        column: 1,
+        line: view.lineOf(0),
+        column: view.column(0),
+        field: badField,
         detail: "bytes that are not valid UTF-8 (save the file as UTF-8)",
-        value: raw.toString("latin1", 0, Math.min(raw.length, 40)),
+        value: buf.toString(
+          "latin1",
+          at,
+          Math.min(fieldEndOf(scan.fieldStarts, badField, scan.end), at + 40),
+        ),
       });
     } else {
+      // The record delimiter is given, not discovered: csv-parse would otherwise take the first
+      // bare CR outside quotes for the line ending and split the record there, losing the fields
+      // after it. The scan above has already ended the record at its LF (CRLF), so inside `raw` a
+      // bare CR outside quotes is data, as on the fast path.
       const rows = parse(raw, {
         relax_column_count: true,
         bom: false,
         skip_empty_lines: false,
+        record_delimiter: "\n",
       }) as string[][];
       const fields = rows[0] ?? [""];
-      view.setDecoded(fields, buf, pos, line, !nonAscii);
+      view.setDecoded(fields, buf, pos, line, !nonAscii, scan.lines > 0);
       for (let f = 0; f < Math.min(scan.fieldStarts.length, MAX_FIELDS); f++)
         view.setOrigStart(f, scan.fieldStarts[f]!);
+      view.setOrigEnd(scan.end);
       sink.record(view);
     }
     pos = scan.next;

@@ -13,8 +13,10 @@ import { location, type RowAccount } from "./quality.js";
 export interface TableRow {
   readonly line: number;
   readonly cells: readonly string[];
-  /** Character column where field i starts. */
+  /** Character column where field i starts, on the line `lines[i]`. */
   readonly columns: readonly number[];
+  /** Physical line where field i starts (later than `line` after a quoted line break). */
+  readonly lines: readonly number[];
 }
 
 export interface TableHeader {
@@ -53,14 +55,21 @@ export function readCsvTable(
         rows++;
         account.rowsRead++;
         if (view.count !== header.names.length) {
+          // Point at the first extra field, or just past the end of a row cut short.
+          const at = Math.min(view.count, header.names.length);
           account.reject("wrong-field-count", {
-            at: location(file, view.line),
-            value: `${view.count} fields, header has ${header.names.length}`,
+            at: location(file, view.lineOf(at), view.column(at)),
+            ...msg.fieldCount(view.count, header.names),
           });
           return;
         }
         onRow(
-          { line: view.line, cells, columns: Array.from({ length: view.count }, (_, i) => view.column(i)) },
+          {
+            line: view.line,
+            cells,
+            columns: Array.from({ length: view.count }, (_, i) => view.column(i)),
+            lines: Array.from({ length: view.count }, (_, i) => view.lineOf(i)),
+          },
           header,
         );
       },
@@ -71,9 +80,13 @@ export function readCsvTable(
           );
         rows++;
         account.rowsRead++;
+        const name = problem.field === undefined ? undefined : header.names[problem.field];
         account.reject(problem.kind, {
           at: location(file, problem.line, problem.column),
+          ...(name === undefined ? {} : { column: name }),
           value: problem.value,
+          // The UTF-8 detail only repeats the reason's text; the others say which case it is.
+          ...(problem.kind === "bad-utf8" ? {} : { detail: problem.detail }),
         });
       },
       blank() {

@@ -176,6 +176,7 @@ export function formatQuality(quality: Quality): string[] {
           .filter(Boolean)
           .join(" ");
         out.push(`      at ${e.at}${detail ? `  ${detail}` : ""}`);
+        if (e.detail) out.push(`         ${e.detail}`);
       }
       if (r.count > Math.min(5, r.examples.length)) out.push("      (more examples in quality.json)");
     }

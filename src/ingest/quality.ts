@@ -9,6 +9,8 @@ export interface Example {
   readonly at: string;
   readonly column?: string;
   readonly value?: string;
+  /** What exactly the reader found, and what to do, when it says more than the reason's text. */
+  readonly detail?: string;
 }
 
 export interface ReasonCount {

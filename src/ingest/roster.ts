@@ -37,17 +37,18 @@ export function readRoster(path: string, settings: Settings): Roster {
         const i = header.index.get(name);
         return i === undefined ? "" : row.cells[i]!.trim();
       };
-      const studentId = row.cells[header.index.get("student_id")!]!;
+      const idColumn = header.index.get("student_id")!;
+      const studentId = row.cells[idColumn]!;
       if (studentId === "") {
         account.reject("empty-id", {
-          at: location(file, row.line, row.columns[header.index.get("student_id")!]),
+          at: location(file, row.lines[idColumn]!, row.columns[idColumn]),
           column: "student_id",
         });
         return;
       }
       if (studentId.length > settings.maxFieldChars) {
         account.reject("long-field", {
-          at: location(file, row.line),
+          at: location(file, row.lines[idColumn]!, row.columns[idColumn]),
           column: "student_id",
           value: studentId.slice(0, 80),
         });

@@ -68,30 +68,32 @@ export function readSessionsFile(path: string, card: Card, settings: Settings): 
       const col = (name: string): number => header.index.get(name) ?? -1;
       const cell = (name: string): string => (col(name) < 0 ? "" : row.cells[col(name)]!);
       const at = (name: string): number => row.columns[col(name)] ?? 1;
+      // The line where a field starts (a later one after a quoted line break in the row).
+      const lineAt = (name: string): number => row.lines[col(name)] ?? row.line;
       for (const name of ["student_id", "class_id", "unit_id", "session_id"]) {
         const v = cell(name);
-        if (v === "") return reject("empty-id", row.line, at(name), name);
+        if (v === "") return reject("empty-id", lineAt(name), at(name), name);
         if (v.length > settings.maxFieldChars)
-          return reject("long-field", row.line, at(name), name, v.slice(0, 80));
+          return reject("long-field", lineAt(name), at(name), name, v.slice(0, 80));
       }
       const day = cell("day");
       const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(day);
       if (!m || !validCalendarDate(Number(m[1]), Number(m[2]), Number(m[3]))) {
-        return reject("bad-day", row.line, at("day"), "day", day);
+        return reject("bad-day", lineAt("day"), at("day"), "day", day);
       }
       const construct = cell("construct");
       if (!constructs.has(construct)) {
         unknownConstructs.add(construct);
-        return reject("unknown-construct", row.line, at("construct"), "construct", construct);
+        return reject("unknown-construct", lineAt("construct"), at("construct"), "construct", construct);
       }
       const nums: Record<string, number> = {};
       for (const name of ["windows", "sum_p", "sum_p2", "above", "sustained_episodes", "longest_run"]) {
         const text = cell(name).trim();
-        if (!NUMBER.test(text)) return reject("not-number", row.line, at(name), name, text);
+        if (!NUMBER.test(text)) return reject("not-number", lineAt(name), at(name), name, text);
         const v = Number(text);
         const integer = name !== "sum_p" && name !== "sum_p2";
         if (integer && (!Number.isInteger(v) || v < 0 || v > 2 ** 31)) {
-          return reject("bad-integer", row.line, at(name), name, text);
+          return reject("bad-integer", lineAt(name), at(name), name, text);
         }
         nums[name] = v;
       }
@@ -117,10 +119,11 @@ export function readSessionsFile(path: string, card: Card, settings: Settings): 
       ) {
         return reject(
           "inconsistent-sums",
-          row.line,
+          lineAt("windows"),
           at("windows"),
           "windows",
-          `${windows}, ${sumP}, ${sumP2}, ${above}`,
+          // Each figure with its name: the reason's rule names them, and the reader checks them against it.
+          `windows ${windows}, sum_p ${sumP}, sum_p2 ${sumP2}, above ${above}, sustained_episodes ${episodes}, longest_run ${longest}`,
         );
       }
       const summary: SessionSummary = {
@@ -165,7 +168,8 @@ export function readSessionsFile(path: string, card: Card, settings: Settings): 
   const summaries: SessionSummary[] = [];
   for (const entry of byKey.values()) {
     if (entry.conflict) {
-      for (const line of [entry.line, ...entry.lines]) reject("conflict", line);
+      const lines = [entry.line, ...entry.lines];
+      for (const line of lines) reject("conflict", line, undefined, undefined, msg.conflictWith(line, lines));
     } else {
       for (const line of entry.lines)
         account.duplicate({ at: location(file, line), value: `same row as line ${entry.line}` });

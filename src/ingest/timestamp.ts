@@ -46,7 +46,10 @@ export function parseTimestamp(
   // Trim spaces a spreadsheet may have left around the value.
   while (start < end && buf[start] === 32) start++;
   while (end > start && buf[end - 1] === 32) end--;
-  if (end - start < 19) return end - start >= 10 && buf[start + 4] === 45 ? "no-offset" : "bad-time";
+  // Too short for date, time with seconds and an offset: "no-offset" would send the reader to add
+  // only an offset to a value such as 2026-02-03 or 2026-02-03T09:15 that also lacks the time or
+  // its seconds, so the message with the full form is the one that helps.
+  if (end - start < 19) return "bad-time";
   const y = digits(buf, start, 4);
   const mo = digits(buf, start + 5, 2);
   const d = digits(buf, start + 8, 2);

@@ -212,6 +212,7 @@ export function summarizeWindowsFile(
     column: number | undefined,
     name?: string,
     value?: string,
+    detail?: string,
   ) => {
     if (pass > 0) return; // counted in pass 1
     const at = location(file, line, column);
@@ -220,19 +221,17 @@ export function summarizeWindowsFile(
       at,
       ...(name === undefined ? {} : { column: name }),
       ...(value === undefined ? {} : { value: value.length > 80 ? `${value.slice(0, 77)}...` : value }),
+      ...(detail === undefined ? {} : { detail }),
     });
   };
 
   const onRow = (view: RecordView, lay: Layout, pl: ConstructPlan): void => {
     if (pass === 0) account.rowsRead++;
     if (view.count !== lay.fieldCount) {
-      reject(
-        "wrong-field-count",
-        view.line,
-        undefined,
-        undefined,
-        `${view.count} fields, header has ${lay.fieldCount}`,
-      );
+      // Point at the first extra field, or just past the end of a row cut short.
+      const at = Math.min(view.count, lay.fieldCount);
+      const { value, detail } = msg.fieldCount(view.count, lay.names);
+      reject("wrong-field-count", view.lineOf(at), view.column(at), undefined, value, detail);
       return;
     }
     const ids = lay.ids;
@@ -241,17 +240,17 @@ export function summarizeWindowsFile(
       if (col < 0) continue;
       const n = view.ends[col]! - view.starts[col]!;
       if (n === 0 && slot !== 3 && slot !== 5) {
-        reject("empty-id", view.line, view.column(col), lay.names[col]);
+        reject("empty-id", view.lineOf(col), view.column(col), lay.names[col]);
         return;
       }
       if (n > settings.maxFieldChars && (n > maxBytes || view.text(col).length > settings.maxFieldChars)) {
-        reject("long-field", view.line, view.column(col), lay.names[col], view.text(col));
+        reject("long-field", view.lineOf(col), view.column(col), lay.names[col], view.text(col));
         return;
       }
     }
     const time = parseTimestamp(view.buf, view.starts[lay.time]!, view.ends[lay.time]!, timeOut);
     if (typeof time === "string") {
-      reject(time, view.line, view.column(lay.time), "window_start", view.text(lay.time));
+      reject(time, view.lineOf(lay.time), view.column(lay.time), "window_start", view.text(lay.time));
       return;
     }
     for (let k = 0; k < lay.constructCols.length; k++) {
@@ -262,11 +261,11 @@ export function summarizeWindowsFile(
         continue;
       }
       if (Number.isNaN(v)) {
-        reject("not-number", view.line, view.column(col), lay.names[col], view.text(col));
+        reject("not-number", view.lineOf(col), view.column(col), lay.names[col], view.text(col));
         return;
       }
       if (v < 0 || v > 1) {
-        reject("out-of-range", view.line, view.column(col), lay.names[col], view.text(col));
+        reject("out-of-range", view.lineOf(col), view.column(col), lay.names[col], view.text(col));
         return;
       }
       values[k] = v;
@@ -338,7 +337,10 @@ export function summarizeWindowsFile(
           `${location(file, problem.line, problem.column)}: the header row: ${problem.detail}.`,
         );
       if (pass === 0) account.rowsRead++;
-      reject(problem.kind, problem.line, problem.column, undefined, problem.value);
+      const name = problem.field === undefined ? undefined : layout!.names[problem.field];
+      // The UTF-8 detail only repeats the reason's text; the others say which case it is.
+      const detail = problem.kind === "bad-utf8" ? undefined : problem.detail;
+      reject(problem.kind, problem.line, problem.column, name, problem.value, detail);
     },
     blank() {
       if (pass === 0) account.blankLines++;
@@ -460,10 +462,11 @@ function replaySitting(s: Sitting, k: number, account: RowAccount, file: string,
     let identical = true;
     for (let m = i + 1; m < j; m++) if (rowCompare(first, order[m]!) !== 0) identical = false;
     if (!identical) {
-      for (let m = i; m < j; m++) {
-        const at = location(file, b.lines[order[m]!]!);
+      const lines = order.slice(i, j).map((r) => b.lines[r]!);
+      for (const line of lines) {
+        const at = location(file, line);
         if (settings.strict) throw new StrictRowError(msg.strictStop(at, REJECT_REASONS.conflict));
-        account.reject("conflict", { at });
+        account.reject("conflict", { at, value: msg.conflictWith(line, lines) });
       }
     } else {
       for (let m = i + 1; m < j; m++) {
