@@ -12,8 +12,11 @@ import { parseArgs } from "node:util";
 import { writeDemoDistrict } from "../demo/simulate.js";
 import { type Effects, processEffects } from "../effects.js";
 import { EXIT, ReportError, UsageError } from "../errors.js";
+import { computeIndicators } from "../indicators/index.js";
 import { formatQuality } from "../ingest/quality-report.js";
-import { checkOutputDir, writeFileAtomically, writeFolderAtomically } from "../output/atomic.js";
+import { msg } from "../messages.js";
+import { checkOutputDir, writeChunks, writeFileAtomically, writeFolderAtomically } from "../output/atomic.js";
+import { activitiesCsv, groupsCsv, studentsCsv, trendsCsv, unitsCsv } from "../output/indicator-csv.js";
 import { manifestFor } from "../output/manifest.js";
 import { type InputPaths, loadInputs, requireSessions } from "../pipeline/inputs.js";
 import { sessionsCsv } from "../summaries/sessions-csv.js";
@@ -52,7 +55,8 @@ const COMMANDS: Record<string, { summary: string; options: OptionSpec[] }> = {
     ],
   },
   build: {
-    summary: "build the output folder (data/sessions.csv, data/quality.json, manifest.json)",
+    summary:
+      "build the output folder: data/ (sessions, quality, students, units, groups, trends) and manifest.json",
     options: [
       { name: "windows", value: "FILE", help: "detector windows (CSV)" },
       { name: "sessions", value: "FILE", help: "session summaries (CSV), instead of --windows" },
@@ -133,11 +137,17 @@ async function build(paths: InputPaths, out: string, effects: Effects, command: 
   checkOutputDir(out);
   const inputs = loadInputs(paths, effects);
   requireSessions(inputs);
+  const indicators = computeIndicators(inputs);
   await writeFolderAtomically(out, (tmp) => {
     mkdirSync(join(tmp, "data"));
-    const { writeChunks } = atomicHelpers;
-    writeChunks(join(tmp, "data", "sessions.csv"), sessionsCsv(inputs.summaries, inputs.hasActivity));
-    writeChunks(join(tmp, "data", "quality.json"), `${JSON.stringify(inputs.quality, null, 2)}\n`);
+    const data = (name: string) => join(tmp, "data", name);
+    writeChunks(data("sessions.csv"), sessionsCsv(inputs.summaries, inputs.hasActivity));
+    writeChunks(data("quality.json"), `${JSON.stringify(inputs.quality, null, 2)}\n`);
+    writeChunks(data("students.csv"), studentsCsv(indicators.students));
+    writeChunks(data("units.csv"), unitsCsv(indicators.units));
+    if (inputs.hasActivity) writeChunks(data("activities.csv"), activitiesCsv(indicators.activities));
+    writeChunks(data("groups.csv"), groupsCsv(indicators.groups));
+    writeChunks(data("trends.csv"), trendsCsv(indicators.trends));
     const buildTime = inputs.settings.buildTime ?? effects.now().toISOString();
     writeChunks(
       join(tmp, "manifest.json"),
@@ -154,8 +164,6 @@ async function build(paths: InputPaths, out: string, effects: Effects, command: 
   for (const w of effects.warnings.list) effects.err(`warning: ${w}`);
   effects.out(`wrote ${resolve(out)}`);
 }
-
-import * as atomicHelpers from "../output/atomic.js";
 
 export async function run(argv: string[], effects: Effects): Promise<number> {
   const [command, ...args] = argv;
@@ -193,7 +201,10 @@ export async function run(argv: string[], effects: Effects): Promise<number> {
   } else if (command === "check") {
     const inputs = loadInputs(inputPaths(values, command), effects);
     for (const line of formatQuality(inputs.quality)) effects.out(line);
-    return inputs.summaries.length > 0 ? EXIT.ok : EXIT.input;
+    if (inputs.summaries.length > 0) return EXIT.ok;
+    // Exit 1 needs a sentence on stderr too: the account alone (on stdout) does not say it failed.
+    effects.err(`engagement-report: ${msg.noUsableRows()}`);
+    return EXIT.input;
   } else if (command === "build") {
     await build(inputPaths(values, command), need(values, "out", command), effects, "build");
   } else {

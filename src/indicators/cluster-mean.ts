@@ -68,7 +68,14 @@ export function clusterParts(cells: Iterable<Cell>): ClusterParts {
     }
     robust = ((k / (k - 1)) * sum) / (n * n);
   }
-  return { n, mean, srs: windowVariance / Math.max(n, 1), robust, meanClusterSize: n > 0 ? nn / n : 0, clusters: k };
+  return {
+    n,
+    mean,
+    srs: windowVariance / Math.max(n, 1),
+    robust,
+    meanClusterSize: n > 0 ? nn / n : 0,
+    clusters: k,
+  };
 }
 
 /** The moderated cluster mean; `correlation` is the pooled within-cluster correlation ρ. */
@@ -100,9 +107,14 @@ export function clusterMean(parts: ClusterParts, correlation: number): ClusterMe
  * bound for the correlation of the detector's errors: the interval errs on the wide side).
  * In relative mode (no noise figures) the window variance is the data's own spread around m.
  */
-export function observedMean(parts: ClusterParts, correlation: number, noiseVariance: number | null): ClusterMean {
+export function observedMean(
+  parts: ClusterParts,
+  correlation: number,
+  noiseVariance: number | null,
+): ClusterMean {
   const window = noiseVariance ?? parts.srs * Math.max(parts.n, 1);
-  const variance = (window / Math.max(parts.n, 1)) * (1 + Math.max(0, parts.meanClusterSize - 1) * correlation);
+  const variance =
+    (window / Math.max(parts.n, 1)) * (1 + Math.max(0, parts.meanClusterSize - 1) * correlation);
   return {
     n: parts.n,
     mean: parts.mean,

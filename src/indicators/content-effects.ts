@@ -4,7 +4,7 @@ import { normalCdf } from "../stats/normal-cdf.js";
 import type { Random } from "../stats/random.js";
 import { activityKey, largest, type StudentData } from "./collect.js";
 import type { ConstructContext } from "./context.js";
-import { reasons, lower, plural } from "./reasons.js";
+import { lower, plural, reasons } from "./reasons.js";
 import type { Estimate, UnitIndicator } from "./types.js";
 
 /**
@@ -126,7 +126,8 @@ function rawEffect(
   }
   const effect = weightedMean(pairs);
   const seBoot = standardError(pairs, effect, settings.replicates, random);
-  const scaleVar = (correction.offsetVariance + correction.inStateVariance) / (correction.scale * correction.scale);
+  const scaleVar =
+    (correction.offsetVariance + correction.inStateVariance) / (correction.scale * correction.scale);
   const se = Math.sqrt(seBoot * seBoot + effect * effect * scaleVar);
   const p = se > 0 ? 2 * normalCdf(-Math.abs(effect) / se) : effect === 0 ? 1 : 0;
   // Consistency across schools: each school with enough students gives its own weighted effect.
@@ -177,7 +178,7 @@ export function finishEffects(raw: readonly RawEffect[], z: number): UnitIndicat
   const q = new Map<RawEffect, number>();
   if (tested.length > 0) {
     const bh = benjaminiHochberg({ pValues: tested.map((r) => r.p as number) });
-    tested.forEach((r, i) => q.set(r, bh.adjusted[i] as number));
+    for (const [i, r] of tested.entries()) q.set(r, bh.adjusted[i] as number);
   }
   const shrunk = new Map<RawEffect, number>();
   const byConstruct = new Map<string, RawEffect[]>();
@@ -192,12 +193,18 @@ export function finishEffects(raw: readonly RawEffect[], z: number): UnitIndicat
       estimates: usable.map((r) => r.effect as number),
       variances: usable.map((r) => (r.se as number) ** 2),
     });
-    usable.forEach((r, i) => shrunk.set(r, eb.shrunk[i] as number));
+    for (const [i, r] of usable.entries()) shrunk.set(r, eb.shrunk[i] as number);
   }
   return raw.map((r) => finishOne(r, z, q.get(r) ?? null, shrunk.get(r) ?? null, tested.length));
 }
 
-function finishOne(r: RawEffect, z: number, q: number | null, shrunk: number | null, family: number): UnitIndicator {
+function finishOne(
+  r: RawEffect,
+  z: number,
+  q: number | null,
+  shrunk: number | null,
+  family: number,
+): UnitIndicator {
   const { ctx } = r;
   const label = ctx.construct.label;
   const base = {
@@ -233,14 +240,17 @@ function finishOne(r: RawEffect, z: number, q: number | null, shrunk: number | n
   const review = concernSide && q < ctx.settings.flags.unitQ;
   const relative = ctx.correction.mode === "relative";
   const amount = (x: number) =>
-    relative ? `${Math.abs(x * 100).toFixed(1)} points of mean probability` : `${Math.abs(x * 100).toFixed(1)} minutes in every 100`;
+    relative
+      ? `${Math.abs(x * 100).toFixed(1)} points of mean probability`
+      : `${Math.abs(x * 100).toFixed(1)} minutes in every 100`;
   const more = effect.value >= 0 ? "more" : "less";
   const range = relative
     ? `${(effect.low * 100).toFixed(1)} to ${(effect.high * 100).toFixed(1)} points`
     : `${(effect.low * 100).toFixed(1)} to ${(effect.high * 100).toFixed(1)} minutes in every 100`;
   let text = `The same ${plural(r.students, "student")} showed ${more} ${lower(label)} here than in the rest of their work: about ${amount(effect.value)} (plausible range ${range}).`;
   text += ` ${chanceText(q, family)}`;
-  if (r.schoolsCompared >= 2) text += ` ${r.schoolsAgreeing} of ${r.schoolsCompared} schools point the same way.`;
+  if (r.schoolsCompared >= 2)
+    text += ` ${r.schoolsAgreeing} of ${r.schoolsCompared} schools point the same way.`;
   text += review
     ? " Worth a review of the content."
     : concernSide

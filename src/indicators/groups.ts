@@ -1,7 +1,7 @@
 import { empiricalBayesNormal } from "../stats/empirical-bayes-normal.js";
 import { type ClusterParts, clusterParts } from "./cluster-mean.js";
 import type { Cell, GroupPart } from "./collect.js";
-import { type ConstructContext, beyondLine } from "./context.js";
+import { beyondLine, type ConstructContext } from "./context.js";
 import { correctedShare, correctedShareVariance } from "./correction.js";
 import { peerRatio, unitMeanVariances } from "./peer-ratio.js";
 import { percentText, plural, ratioText, reasons } from "./reasons.js";
@@ -59,7 +59,11 @@ export function groupMembers(ctx: ConstructContext): Members[] {
 
 function robustMean(parts: ClusterParts): { mean: number; variance: number; df: number } {
   // With one student the group is withheld anyway; the window-level variance keeps the maths finite.
-  return { mean: parts.mean, variance: parts.clusters > 1 ? parts.robust : parts.srs, df: Math.max(1, parts.clusters - 1) };
+  return {
+    mean: parts.mean,
+    variance: parts.clusters > 1 ? parts.robust : parts.srs,
+    df: Math.max(1, parts.clusters - 1),
+  };
 }
 
 function unitsOf(m: Members): Map<string, Cell> {
@@ -76,7 +80,11 @@ function unitsOf(m: Members): Map<string, Cell> {
   return units;
 }
 
-export function groupIndicators(ctx: ConstructContext, members: readonly Members[], suppression: Suppression): GroupIndicator[] {
+export function groupIndicators(
+  ctx: ConstructContext,
+  members: readonly Members[],
+  suppression: Suppression,
+): GroupIndicator[] {
   const { construct, correction, settings } = ctx;
   const unitVariance = unitMeanVariances(
     [...ctx.data.students.values()].map((s) => s.units),
@@ -127,7 +135,13 @@ export function groupIndicators(ctx: ConstructContext, members: readonly Members
   }
   return raw.map((x) => {
     const students = x.m.students.size;
-    const base = { level: x.m.level, groupId: x.m.id, parentId: x.m.parentId, construct: construct.key, students };
+    const base = {
+      level: x.m.level,
+      groupId: x.m.id,
+      parentId: x.m.parentId,
+      construct: construct.key,
+      students,
+    };
     if (!ctx.usable) {
       return {
         ...base,
@@ -138,7 +152,8 @@ export function groupIndicators(ctx: ConstructContext, members: readonly Members
       };
     }
     const why = suppression.reason(x.m.level, x.m.id);
-    if (why !== null) return { ...base, status: "suppressed" as const, share: null, ratio: null, reason: why };
+    if (why !== null)
+      return { ...base, status: "suppressed" as const, share: null, ratio: null, reason: why };
     let share: Estimate | null = shrunk.get(x) ?? null;
     if (!share && x.share) {
       const t = ctx.critical(x.share.df);
@@ -150,11 +165,23 @@ export function groupIndicators(ctx: ConstructContext, members: readonly Members
     const peers = x.m.level === "class" ? "other classes" : "other schools";
     let text = `Across ${plural(students, "student")}`;
     if (x.m.level === "district") text += ", the whole district";
-    text += r ? `, ${reasons.ratio(construct.label, r, peers)}.` : x.m.level === "district" ? "." : `: ${reasons.noRatio(construct.label, peers)}.`;
-    if (share) text += ` About ${boundedPercent(share.value, students, settings.suppressionSize)} of observed time (plausible range ${boundedPercent(share.low, students, settings.suppressionSize)} to ${boundedPercent(share.high, students, settings.suppressionSize)}).`;
-    if (elevated) text += ` The whole range lies ${ctx.direction === "higher" ? "above" : "below"} ${ratioText(settings.flags.groupRatio)} times: a pattern worth planning support around, not a judgement of the teacher.`;
+    text += r
+      ? `, ${reasons.ratio(construct.label, r, peers)}.`
+      : x.m.level === "district"
+        ? "."
+        : `: ${reasons.noRatio(construct.label, peers)}.`;
+    if (share)
+      text += ` About ${boundedPercent(share.value, students, settings.suppressionSize)} of observed time (plausible range ${boundedPercent(share.low, students, settings.suppressionSize)} to ${boundedPercent(share.high, students, settings.suppressionSize)}).`;
+    if (elevated)
+      text += ` The whole range lies ${ctx.direction === "higher" ? "above" : "below"} ${ratioText(settings.flags.groupRatio)} times: a pattern worth planning support around, not a judgement of the teacher.`;
     if (correction.mode === "relative") text += ` ${reasons.relative}`;
-    return { ...base, status: elevated ? ("elevated" as const) : ("typical" as const), share, ratio: r, reason: text };
+    return {
+      ...base,
+      status: elevated ? ("elevated" as const) : ("typical" as const),
+      share,
+      ratio: r,
+      reason: text,
+    };
   });
 }
 

@@ -15,7 +15,7 @@ import { createRandom } from "../stats/random.js";
 import { twoSidedZ } from "../stats/two-sided-z.js";
 import type { SessionSummary } from "../summaries/types.js";
 import { collectConstruct } from "./collect.js";
-import { type RawEffect, activityEffects, finishEffects, unitEffects } from "./content-effects.js";
+import { activityEffects, finishEffects, type RawEffect, unitEffects } from "./content-effects.js";
 import { type ConstructContext, constructContext } from "./context.js";
 import { correctionFor } from "./correction.js";
 import { groupIndicators, groupMembers } from "./groups.js";
@@ -35,7 +35,13 @@ export function computeIndicators(inputs: IndicatorInputs): Indicators {
   const { card, settings, summaries } = inputs;
   const contexts: ConstructContext[] = card.constructs.map((construct) => {
     const correction = correctionFor(construct);
-    return constructContext(card, construct, settings, correction, collectConstruct(construct.key, summaries, correction));
+    return constructContext(
+      card,
+      construct,
+      settings,
+      correction,
+      collectConstruct(construct.key, summaries, correction),
+    );
   });
   const members = contexts.map((ctx) => groupMembers(ctx));
   // Needs every construct's group sizes first: a group is withheld for all constructs alike.

@@ -1,6 +1,6 @@
 import { type ClusterMean, clusterParts, observedMean } from "./cluster-mean.js";
 import { largest, type SessionCell, type StudentData } from "./collect.js";
-import { type ConstructContext, beyondLine, pointBeyond } from "./context.js";
+import { beyondLine, type ConstructContext, pointBeyond } from "./context.js";
 import { correctedShare, correctedShareVariance, windowNoiseVariance } from "./correction.js";
 import { peerRatio, unitMeanVariances } from "./peer-ratio.js";
 import { reasons } from "./reasons.js";
@@ -124,7 +124,11 @@ function oneStudent(
   const flagged = r !== null && beyondLine(ctx.direction, r.low, r.high, line);
   const nearLine = r !== null && !flagged && pointBeyond(ctx.direction, r.value, line);
   const parts = [reasons.evidence(sessions, days)];
-  parts.push(r ? reasons.ratio(construct.label, r, "other students") : reasons.noRatio(construct.label, "other students"));
+  parts.push(
+    r
+      ? reasons.ratio(construct.label, r, "other students")
+      : reasons.noRatio(construct.label, "other students"),
+  );
   let text = `${parts.join(", ")}.`;
   if (share) text += ` That is ${reasons.share(share)}.`;
   text += ` ${flagged ? reasons.flagged(ctx.direction, line) : nearLine ? reasons.nearLine(ctx.direction) : reasons.usual}`;

@@ -30,13 +30,11 @@ export function suppressionFor(groups: readonly GroupSize[], size: number): Supp
   const why = new Map<string, string>();
   for (const g of groups) {
     if (g.students < size) {
-      why.set(
-        key(g.level, g.id),
-        `Fewer than ${size} students: withheld to protect the students' privacy.`,
-      );
+      why.set(key(g.level, g.id), `Fewer than ${size} students: withheld to protect the students' privacy.`);
     }
   }
-  const complementary = "Withheld so that a withheld neighbouring group cannot be worked out from the totals.";
+  const complementary =
+    "Withheld so that a withheld neighbouring group cannot be worked out from the totals.";
   const children = (parentLevel: GroupLevel, childLevel: GroupLevel) => {
     const byParent = new Map<string, GroupSize[]>();
     for (const g of groups) {

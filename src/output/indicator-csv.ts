@@ -1,5 +1,11 @@
 /** The indicator tables as CSV, exactly in the data contract's column order (DATA-CONTRACT.md, outputs). */
-import type { Estimate, GroupIndicator, StudentIndicator, TrendRow, UnitIndicator } from "../indicators/types.js";
+import type {
+  Estimate,
+  GroupIndicator,
+  StudentIndicator,
+  TrendRow,
+  UnitIndicator,
+} from "../indicators/types.js";
 import { csvLine, textCell } from "./csv-write.js";
 
 /** A figure rounded to `digits` decimals, without trailing zeros; empty when absent. */

@@ -74,5 +74,11 @@ export function fiellerInterval(options: FiellerOptions): FiellerInterval {
   const constant = a * a - c2 * va;
   const discriminant = Math.max(0, linear * linear - quadratic * constant);
   const root = Math.sqrt(discriminant);
-  return { ratio, kind: "bounded", lower: (linear - root) / quadratic, upper: (linear + root) / quadratic, g };
+  return {
+    ratio,
+    kind: "bounded",
+    lower: (linear - root) / quadratic,
+    upper: (linear + root) / quadratic,
+    g,
+  };
 }

@@ -44,5 +44,8 @@ export function moderatedVariance(options: ModeratedVarianceOptions): ModeratedV
   assertPositive("priorDegreesOfFreedom", priorDegreesOfFreedom);
   assertFinite("variance", variance);
   const df = priorDegreesOfFreedom + degreesOfFreedom;
-  return { variance: (priorDegreesOfFreedom * priorVariance + degreesOfFreedom * variance) / df, degreesOfFreedom: df };
+  return {
+    variance: (priorDegreesOfFreedom * priorVariance + degreesOfFreedom * variance) / df,
+    degreesOfFreedom: df,
+  };
 }
