@@ -8,8 +8,11 @@ import type { GroupLevel } from "./types.js";
  * exactly one child is withheld, its figure could be worked out from the parent and its shown
  * siblings, so the smallest shown sibling is withheld as well (the classic rule of at least two
  * withheld cells per total; NCES 2011-603, Statistical Methods for Protecting Personally Identifiable
- * Information in Aggregate Reporting, technical brief 3). Checked for classes within each school
- * and for schools within the district, until nothing changes.
+ * Information in Aggregate Reporting, technical brief 3). And a withheld parent whose children are
+ * all shown could be rebuilt from them (and then a withheld sibling of the parent from the level
+ * above), so its smallest child is withheld as well. Checked for schools within the district first,
+ * then for classes within each school (a school's own status must be settled before its classes
+ * are looked at, or a class may be withheld for a school that ends up withheld anyway).
  */
 export interface Suppression {
   withheld(level: GroupLevel, id: string): boolean;
@@ -43,15 +46,16 @@ export function suppressionFor(groups: readonly GroupSize[], size: number): Supp
     }
     return { parentLevel, childLevel, byParent };
   };
-  const families = [children("school", "class"), children("district", "school")];
+  // Schools before classes: see the doc comment.
+  const families = [children("district", "school"), children("school", "class")];
   let changed = true;
   while (changed) {
     changed = false;
     for (const f of families) {
       for (const [parentId, list] of f.byParent) {
-        if (why.has(key(f.parentLevel, parentId))) continue;
         const hidden = list.filter((g) => why.has(key(g.level, g.id)));
-        if (hidden.length !== 1) continue;
+        const parentHidden = why.has(key(f.parentLevel, parentId));
+        if (hidden.length !== (parentHidden ? 0 : 1)) continue;
         const shown = list
           .filter((g) => !why.has(key(g.level, g.id)))
           .sort((a, b) => a.students - b.students || (a.id < b.id ? -1 : 1));

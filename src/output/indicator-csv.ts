@@ -137,7 +137,8 @@ export function* groupsCsv(rows: readonly GroupIndicator[]): Generator<string> {
       textCell(r.groupId),
       textCell(r.construct),
       r.status,
-      String(r.students),
+      // A withheld group's size is withheld too: a count under the suppression size is itself a small-cell figure.
+      r.status === "suppressed" ? "" : String(r.students),
       ...estimateCells(r.share),
       ...estimateCells(r.ratio, 3),
       textCell(r.reason),
