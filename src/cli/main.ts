@@ -19,6 +19,10 @@ import { checkOutputDir, writeChunks, writeFileAtomically, writeFolderAtomically
 import { activitiesCsv, groupsCsv, studentsCsv, trendsCsv, unitsCsv } from "../output/indicator-csv.js";
 import { manifestFor } from "../output/manifest.js";
 import { type InputPaths, loadInputs, requireSessions } from "../pipeline/inputs.js";
+import { createChartRenderer } from "../reports/charts.js";
+import { findChromium, printPdfs } from "../reports/pdf.js";
+import { buildSite } from "../reports/site.js";
+import { pdfJobs, writeSite } from "../reports/write.js";
 import { sessionsCsv } from "../summaries/sessions-csv.js";
 import { VERSION } from "../version.js";
 import { demoModeFrom } from "./demo-mode.js";
@@ -64,6 +68,7 @@ const COMMANDS: Record<string, { summary: string; options: OptionSpec[] }> = {
       { name: "roster", value: "FILE", help: "roster (CSV)" },
       { name: "settings", value: "FILE", help: "settings (YAML)" },
       { name: "out", value: "DIR", help: "output folder, required" },
+      { name: "no-pdf", help: "skip the PDFs (HTML and data only; no browser needed)" },
     ],
   },
   demo: {
@@ -73,6 +78,7 @@ const COMMANDS: Record<string, { summary: string; options: OptionSpec[] }> = {
       { name: "students", value: "N", help: "students, 50 to 100000 (default 300)" },
       { name: "seed", value: "S", help: "random seed (default 1)" },
       { name: "null", help: "plant nothing (every student alike)" },
+      { name: "settings", value: "FILE", help: "settings (YAML); fix build_time for repeatable output" },
     ],
   },
 };
@@ -133,12 +139,24 @@ function inputPaths(values: Record<string, unknown>, command: string): InputPath
   };
 }
 
-async function build(paths: InputPaths, out: string, effects: Effects, command: string): Promise<void> {
+export interface BuildOptions {
+  readonly pdf: boolean;
+  readonly command: string;
+}
+
+/**
+ * read → validate → summarise → estimate → model the report → render → print, inside one atomic
+ * output folder. The browser is looked for before anything is written, so a missing one fails early.
+ */
+async function build(paths: InputPaths, out: string, effects: Effects, options: BuildOptions): Promise<void> {
   checkOutputDir(out);
+  const chromium = options.pdf ? findChromium() : null;
   const inputs = loadInputs(paths, effects);
   requireSessions(inputs);
   const indicators = computeIndicators(inputs);
-  await writeFolderAtomically(out, (tmp) => {
+  const buildTime = inputs.settings.buildTime ?? effects.now().toISOString();
+  const pages = await buildSite({ inputs, indicators, builtAt: buildTime }, createChartRenderer());
+  await writeFolderAtomically(out, async (tmp) => {
     mkdirSync(join(tmp, "data"));
     const data = (name: string) => join(tmp, "data", name);
     writeChunks(data("sessions.csv"), sessionsCsv(inputs.summaries, inputs.hasActivity));
@@ -148,7 +166,9 @@ async function build(paths: InputPaths, out: string, effects: Effects, command: 
     if (inputs.hasActivity) writeChunks(data("activities.csv"), activitiesCsv(indicators.activities));
     writeChunks(data("groups.csv"), groupsCsv(indicators.groups));
     writeChunks(data("trends.csv"), trendsCsv(indicators.trends));
-    const buildTime = inputs.settings.buildTime ?? effects.now().toISOString();
+    writeSite(tmp, pages);
+    if (chromium) await printPdfs(pdfJobs(tmp, pages, inputs.settings.title), chromium);
+    // Last: the manifest lists every file written before it.
     writeChunks(
       join(tmp, "manifest.json"),
       manifestFor(tmp, {
@@ -157,7 +177,7 @@ async function build(paths: InputPaths, out: string, effects: Effects, command: 
         inputs: inputs.files,
         card: inputs.card,
         settings: inputs.settings,
-        command,
+        command: options.command,
       }),
     );
   });
@@ -206,7 +226,10 @@ export async function run(argv: string[], effects: Effects): Promise<number> {
     effects.err(`engagement-report: ${msg.noUsableRows()}`);
     return EXIT.input;
   } else if (command === "build") {
-    await build(inputPaths(values, command), need(values, "out", command), effects, "build");
+    await build(inputPaths(values, command), need(values, "out", command), effects, {
+      pdf: values["no-pdf"] !== true,
+      command: "build",
+    });
   } else {
     const out = (values.out as string | undefined) ?? "demo-report";
     const students = values.students === undefined ? 300 : Number(values.students);
@@ -221,7 +244,12 @@ export async function run(argv: string[], effects: Effects): Promise<number> {
         seed,
         mode: demoModeFrom(values.null === true),
       });
-      await build({ windows: paths.windows, card: paths.card, roster: paths.roster }, out, effects, "demo");
+      const settings = values.settings as string | undefined;
+      const inputs = { windows: paths.windows, card: paths.card, roster: paths.roster, settings };
+      await build(inputs, out, effects, {
+        pdf: values["no-pdf"] !== true,
+        command: "demo",
+      });
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }

@@ -16,6 +16,7 @@ import { readSessionsFile } from "../ingest/sessions-file.js";
 import { summarizeWindowsFile } from "../ingest/windows.js";
 import { msg } from "../messages.js";
 import type { SessionSummary } from "../summaries/types.js";
+import { pseudonymise, pseudonymKey } from "./pseudonymise.js";
 
 export interface InputPaths {
   readonly windows?: string | undefined;
@@ -160,6 +161,20 @@ export function loadInputs(paths: InputPaths, effects: Effects): LoadedInputs {
     period: { from, to, outside },
     notes: [],
   });
+  // Last: pseudonyms replace ids everywhere downstream, the key never leaves this step.
+  const key = pseudonymKey(settings);
+  if (key) {
+    const p = pseudonymise(key, { summaries: inPeriod, roster, quality });
+    return {
+      card,
+      settings,
+      roster: p.roster,
+      summaries: p.summaries,
+      hasActivity,
+      quality: p.quality,
+      files,
+    };
+  }
   return { card, settings, roster, summaries: inPeriod, hasActivity, quality, files };
 }
 

@@ -1,0 +1,113 @@
+/**
+ * PDFs printed from the same HTML by headless Chromium (puppeteer, with the system's Chromium: the
+ * package downloads no browser). One PDF per audience, and per caseload for check-ins: the pages of
+ * the bundle are joined into one document with page breaks, because one long document prints about
+ * twice as fast as many one-page ones. Tagged (for assistive technology) and with an outline; a
+ * running header with the caution and a footer with page numbers; the caution is also in each
+ * page's body, since running headers are not read aloud.
+ */
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { pathToFileURL } from "node:url";
+import { InputError } from "../errors.js";
+
+export interface PdfJob {
+  /** Absolute path of the PDF to write. */
+  readonly path: string;
+  /** Document title (never a student's name). */
+  readonly title: string;
+  /** Full HTML pages, in order. */
+  readonly pages: readonly string[];
+}
+
+const CANDIDATES = [
+  "/usr/bin/chromium",
+  "/usr/bin/chromium-browser",
+  "/usr/bin/google-chrome",
+  "/usr/bin/google-chrome-stable",
+];
+
+/** The browser to print with: ENGAGEMENT_REPORT_CHROMIUM, PUPPETEER_EXECUTABLE_PATH, or a usual system path. */
+export function findChromium(env: NodeJS.ProcessEnv = process.env): string {
+  for (const name of ["ENGAGEMENT_REPORT_CHROMIUM", "PUPPETEER_EXECUTABLE_PATH"]) {
+    const v = env[name];
+    if (v) {
+      if (!existsSync(v))
+        throw new InputError(
+          `${name} is set to ${v}, but no file is there. Point it at a Chromium or Chrome executable.`,
+        );
+      return v;
+    }
+  }
+  for (const c of CANDIDATES) if (existsSync(c)) return c;
+  throw new InputError(
+    "no Chromium found to print the PDFs. Install one (on Debian or Ubuntu: sudo apt-get install chromium), or set ENGAGEMENT_REPORT_CHROMIUM to its path, or build without PDFs with --no-pdf.",
+  );
+}
+
+export const LAUNCH_ARGS = [
+  "--headless",
+  "--no-sandbox",
+  "--disable-gpu",
+  "--disable-quic",
+  "--no-first-run",
+  "--disable-background-networking",
+  "--disable-component-update",
+  "--disable-sync",
+];
+
+const escape = (s: string) =>
+  s.replace(/[&<>"]/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[c] as string);
+
+/** Joins full pages into one printable document: the first page's head, every page's main content. */
+export function bundle(title: string, pages: readonly string[]): string {
+  const first = pages[0] ?? "";
+  const head = first
+    .slice(0, first.indexOf("</head>"))
+    .replace(/<title>[^<]*<\/title>/, `<title>${escape(title)}</title>`);
+  const mains = pages.map((p, i) => {
+    const start = p.indexOf('<main id="main">');
+    const end = p.lastIndexOf("</main>");
+    const inner = start >= 0 && end > start ? p.slice(start + '<main id="main">'.length, end) : p;
+    return `<section${i > 0 ? ' class="page-break"' : ""}>${inner}</section>`;
+  });
+  return `${head}</head>\n<body>\n<main id="main">\n${mains.join("\n")}\n</main>\n</body>\n</html>\n`;
+}
+
+export async function printPdfs(jobs: readonly PdfJob[], chromium: string): Promise<void> {
+  if (jobs.length === 0) return;
+  const { default: puppeteer } = await import("puppeteer");
+  const profile = mkdtempSync(join(tmpdir(), "engagement-report-chromium-"));
+  const work = mkdtempSync(join(tmpdir(), "engagement-report-print-"));
+  const browser = await puppeteer.launch({
+    executablePath: chromium,
+    args: [...LAUNCH_ARGS, `--user-data-dir=${profile}`],
+  });
+  try {
+    const page = await browser.newPage();
+    let n = 0;
+    for (const job of jobs) {
+      const file = join(work, `bundle-${n++}.html`);
+      writeFileSync(file, bundle(job.title, job.pages));
+      await page.goto(pathToFileURL(file).href, { waitUntil: "load" });
+      await page.pdf({
+        path: job.path,
+        format: "Letter",
+        printBackground: true,
+        tagged: true,
+        outline: true,
+        displayHeaderFooter: true,
+        headerTemplate:
+          '<div style="font-size:8px;width:100%;text-align:center;color:#333;">For low-stakes support only. Not for grades, discipline, placement or judging teachers.</div>',
+        footerTemplate:
+          '<div style="font-size:8px;width:100%;text-align:center;color:#333;">Page <span class="pageNumber"></span> of <span class="totalPages"></span></div>',
+        margin: { top: "18mm", bottom: "16mm", left: "14mm", right: "14mm" },
+      });
+    }
+  } finally {
+    await browser.close();
+    rmSync(profile, { recursive: true, force: true });
+    rmSync(work, { recursive: true, force: true });
+  }
+}
