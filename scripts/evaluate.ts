@@ -5,9 +5,9 @@
 import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { DEFAULT_SETTINGS } from "../src/config/defaults.js";
 import { loadCard } from "../src/config/card.js";
-import { writeDemoDistrict, type DemoTruth } from "../src/demo/simulate.js";
+import { DEFAULT_SETTINGS } from "../src/config/defaults.js";
+import { type DemoTruth, writeDemoDistrict } from "../src/demo/simulate.js";
 import { computeIndicators } from "../src/indicators/index.js";
 import { summarizeWindowsFile } from "../src/ingest/windows.js";
 
@@ -38,7 +38,21 @@ for (let seed = 1; seed <= seeds; seed++) {
     rows++;
     if (row.status === "check-in") {
       checkins++;
-      if (nullMode && process.env.SHOW) console.log("null flag", seed, row.studentId, row.construct, "trueRatio", t.ratio[k]?.toFixed(2), "est", row.ratio?.value.toFixed(2), row.ratio?.low.toFixed(2), row.ratio?.high.toFixed(2), row.windows, row.sessions);
+      if (nullMode && process.env.SHOW)
+        console.log(
+          "null flag",
+          seed,
+          row.studentId,
+          row.construct,
+          "trueRatio",
+          t.ratio[k]?.toFixed(2),
+          "est",
+          row.ratio?.value.toFixed(2),
+          row.ratio?.low.toFixed(2),
+          row.ratio?.high.toFixed(2),
+          row.windows,
+          row.sessions,
+        );
     }
     if (row.status === "too-little-data") continue;
     const trueShare = t.share[k]!;
@@ -53,17 +67,44 @@ for (let seed = 1; seed <= seeds; seed++) {
     if (t.planted[k]) {
       planted++;
       if (row.status === "check-in") recalled++;
-    } else if (card.constructs.find((c) => c.key === row.construct)?.higherIs === "good" ? trueRatio > 1 / 1.2 : trueRatio < 1.2) {
+    } else if (
+      card.constructs.find((c) => c.key === row.construct)?.higherIs === "good"
+        ? trueRatio > 1 / 1.2
+        : trueRatio < 1.2
+    ) {
       lowTrue++;
       if (row.status === "check-in") {
         lowFlagged++;
-        if (process.env.SHOW) console.log("false flag", seed, row.studentId, row.construct, "true", trueRatio.toFixed(2), "share", trueShare.toFixed(3), "est", row.ratio?.value.toFixed(2), row.ratio?.low.toFixed(2), row.ratio?.high.toFixed(2), row.windows, row.sessions, "estshare", row.share?.value.toFixed(3), row.share?.low.toFixed(3), row.share?.high.toFixed(3));
+        if (process.env.SHOW)
+          console.log(
+            "false flag",
+            seed,
+            row.studentId,
+            row.construct,
+            "true",
+            trueRatio.toFixed(2),
+            "share",
+            trueShare.toFixed(3),
+            "est",
+            row.ratio?.value.toFixed(2),
+            row.ratio?.low.toFixed(2),
+            row.ratio?.high.toFixed(2),
+            row.windows,
+            row.sessions,
+            "estshare",
+            row.share?.value.toFixed(3),
+            row.share?.low.toFixed(3),
+            row.share?.high.toFixed(3),
+          );
       }
     }
   }
   rmSync(dir, { recursive: true, force: true });
 }
-for (const [k, e] of tally) console.log(`${k.padEnd(14)} coverage ${(e.covered / e.total).toFixed(3)} (n=${e.total}) mean width ${(e.width / e.total).toFixed(3)}`);
+for (const [k, e] of tally)
+  console.log(
+    `${k.padEnd(14)} coverage ${(e.covered / e.total).toFixed(3)} (n=${e.total}) mean width ${(e.width / e.total).toFixed(3)}`,
+  );
 console.log(`planted recall ${recalled}/${planted} = ${(recalled / planted).toFixed(3)}`);
 console.log(`flags among true ratio < 1.2: ${lowFlagged}/${lowTrue} = ${(lowFlagged / lowTrue).toFixed(4)}`);
 console.log(`check-in rows ${checkins}/${rows} = ${(checkins / rows).toFixed(4)}`);

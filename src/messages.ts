@@ -16,6 +16,36 @@ function reason(error: unknown): string {
   return error instanceof Error ? error.message : String(error);
 }
 
+const DATE_TIME = "a date-time with offset such as 2026-09-01T08:00:00Z";
+
+/**
+ * Plain words for each text pattern in schemas/, so that no message shows a regular expression.
+ * Keyed by the pattern exactly as the schema writes it; a test checks every pattern has an entry.
+ */
+export const PATTERN_TEXT: Readonly<Record<string, string>> = {
+  "^\\d{4}-\\d{2}-\\d{2}T\\d{2}:\\d{2}:\\d{2}(\\.\\d+)?(Z|[+-]\\d{2}:\\d{2})$": DATE_TIME,
+  "^\\d{4}-\\d{2}-\\d{2}$": "a date such as 2026-09-01",
+  "^[A-Za-z_][A-Za-z0-9_]*$":
+    "the name of an environment variable (letters, digits and _, not starting with a digit)",
+  "^[a-z][a-z0-9_]*$": "lower-case letters, digits and _, starting with a letter",
+};
+
+/** Plain words for the JSON Schema types. */
+const TYPE_TEXT: Readonly<Record<string, string>> = {
+  number: "a number",
+  integer: "a whole number",
+  string: "text",
+  boolean: "true or false",
+  object: "a mapping of keys",
+  array: "a list",
+  null: "an empty value",
+};
+
+/** What a schema asks for, in words: "a number", "text or an empty value", "text such as ...". */
+export function expectedText(types: readonly string[]): string {
+  return types.map((t) => TYPE_TEXT[t] ?? t).join(" or ");
+}
+
 export const msg = {
   // Files
   cannotRead: (path: string, what: string, error: unknown) =>
@@ -31,11 +61,20 @@ export const msg = {
     "no usable rows: every data row was rejected or lies outside the settings' period; the account above says why and where.",
   yamlSyntax: (path: string, line: number, col: number, text: string) =>
     `${path}:${line}:${col}: not valid YAML: ${text}`,
+  /** `keyPath` is null when the repeated key cannot be placed in the document. */
+  duplicateKey: (path: string, line: number, col: number, keyPath: string | null) =>
+    `${path}:${line}:${col}: not valid YAML: ${keyPath === null ? "a key appears more than once in one mapping" : `the key ${quote(keyPath)} appears more than once`}; keep one.`,
+  severalDocuments: (path: string, line: number, col: number) =>
+    `${path}:${line}:${col}: the file holds several YAML documents (---); keep one.`,
 
   // Card and settings
   unknownKey: (path: string, allowed: readonly string[]) =>
     `unknown key ${quote(path)}; allowed here: ${allowed.join(", ")}. Check the spelling.`,
-  missingKey: (path: string) => `missing required key ${quote(path)}.`,
+  /** `expected` names the value wanted, as `expectedText` gives it ("a number"). */
+  missingKey: (path: string, expected: string) =>
+    `missing required key ${quote(path)}: expected ${expected}. Add it to the mapping that starts here.`,
+  /** A text that does not match its schema pattern: the pattern in words, never the expression. */
+  patternText: (pattern: string) => PATTERN_TEXT[pattern] ?? "text of the form the documentation gives",
   badKeyName: (where: string, key: string) =>
     `${where}: construct key ${quote(key)} must be lower-case letters, digits and _, starting with a letter (the windows file's column name).`,
   badCalibration: (path: string, found: string) =>
@@ -46,6 +85,8 @@ export const msg = {
   pairIncomplete: (key: string, present: string, missing: string) =>
     `constructs.${key}: ${present} is given but ${missing} is not; give both or neither.`,
   badDate: (key: string, value: string) => `${key}: ${quote(value)} is not a valid date.`,
+  badDateTime: (key: string, value: string) =>
+    `${key}: ${quote(value)} is not a real date and time; expected ${DATE_TIME}.`,
   periodReversed: (from: string, to: string) => `period.from (${from}) is after period.to (${to}).`,
   twoKeySources: () => "pseudonymise: give key_env or key_file, not both.",
 
@@ -71,8 +112,20 @@ export const msg = {
   /** The value shown for each of the rows that share a key but disagree. */
   conflictWith: (line: number, lines: readonly number[]) =>
     `same key as line${lines.length > 2 ? "s" : ""} ${lines.filter((l) => l !== line).join(", ")}, with different values`,
-  strictStop: (at: string, text: string) =>
-    `${at}: ${text}. The settings ask for strictness (strict: true), so the run stops at the first rejected row.`,
+  /**
+   * A rejected row stops the run (settings `strict: true`): the reason's text, then what was found
+   * there (column, value, detail), as the data-quality account shows each example.
+   */
+  strictStop: (text: string, found: { at: string; column?: string; value?: string; detail?: string }) => {
+    const cell = [
+      found.column === undefined ? undefined : `column ${found.column}`,
+      found.value === undefined ? undefined : `value ${quote(found.value)}`,
+    ]
+      .filter((x) => x !== undefined)
+      .join(", ");
+    const here = [cell, found.detail].filter((x) => x !== undefined && x !== "").join("; ");
+    return `${found.at}: ${text}.${here === "" ? "" : ` Found: ${here}.`} The settings ask for strictness (strict: true), so the run stops at the first rejected row.`;
+  },
 } as const;
 
 /** Plain-language text of each reason a row can be rejected, and what to do about it. */
@@ -95,7 +148,7 @@ export const REJECT_REASONS = {
   "too-long":
     "the row is longer than the record size limit (usually a missing line ending or a broken quote)",
   conflict:
-    "two or more rows with the same key (student, session and window_start; or the same student_id in the roster) disagree, so all of them are set aside",
+    "two or more rows with the same key disagree, so all of them are set aside (the key: student, session and window_start in a windows file; student, session, class, school, unit, activity and construct in a sessions file; student_id in a roster)",
   "bad-integer": "a count is not a whole number of the allowed size",
   "bad-day": "day is not a date of the form YYYY-MM-DD",
   "unknown-construct": "construct is not a key of the detector card",

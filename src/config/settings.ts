@@ -1,6 +1,7 @@
 /**
  * Settings: YAML as written (`SettingsInput`) → schema check → `Settings` as used, with every
- * default from defaults.ts filled in.
+ * default from defaults.ts filled in. An empty value (null) means "not set", so the settings as
+ * used (the manifest's `settings`) can be pasted back as a settings file.
  */
 import { SettingsError } from "../errors.js";
 import { msg } from "../messages.js";
@@ -10,7 +11,7 @@ import { type Locator, loadYaml, validateWithSchema } from "./yaml-schema.js";
 
 export interface SettingsInput {
   title?: string;
-  period?: { from?: string; to?: string };
+  period?: { from?: string | null; to?: string | null };
   confidence?: number;
   strict?: boolean;
   audiences?: Audience[];
@@ -18,7 +19,7 @@ export interface SettingsInput {
   suppression_size?: number;
   flags?: { student_ratio?: number; group_ratio?: number; unit_q?: number };
   replicates?: number;
-  pseudonymise?: { key_env?: string; key_file?: string };
+  pseudonymise?: { key_env?: string | null; key_file?: string | null };
   build_time?: string | null;
   seed?: number;
   examples_per_reason?: number;
@@ -44,11 +45,13 @@ export function settingsFromInput(input: SettingsInput, where: string | Locator 
   if (period.from !== null && period.to !== null && period.from > period.to) {
     throw new SettingsError(`${at(["period", "from"])}: ${msg.periodReversed(period.from, period.to)}`);
   }
-  if (input.pseudonymise?.key_env !== undefined && input.pseudonymise.key_file !== undefined) {
+  if (input.pseudonymise?.key_env != null && input.pseudonymise.key_file != null) {
     throw new SettingsError(`${at(["pseudonymise", "key_file"], true)}: ${msg.twoKeySources()}`);
   }
-  if (input.build_time && Number.isNaN(Date.parse(input.build_time))) {
-    throw new SettingsError(`${at(["build_time"])}: ${msg.badDate("build_time", input.build_time)}`);
+  // The schema checks the form; this the calendar (Date.parse alone takes February 30 for March 2).
+  const buildTime = input.build_time;
+  if (buildTime != null && (Number.isNaN(Date.parse(buildTime)) || !validDate(buildTime.slice(0, 10)))) {
+    throw new SettingsError(`${at(["build_time"])}: ${msg.badDateTime("build_time", buildTime)}`);
   }
   return {
     title: input.title ?? d.title,

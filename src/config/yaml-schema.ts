@@ -7,20 +7,51 @@ import { readFileSync } from "node:fs";
 import { Ajv, type ErrorObject, type ValidateFunction } from "ajv";
 import { isMap, isPair, isScalar, isSeq, LineCounter, type Node, parseDocument, visit } from "yaml";
 import { SettingsError } from "../errors.js";
-import { msg } from "../messages.js";
+import { expectedText, msg } from "../messages.js";
 
 // verbose: errors carry their parent schema, which names the keys allowed beside an unknown one.
 const ajv = new Ajv({ allErrors: true, strict: true, allowUnionTypes: true, verbose: true });
-const compiled = new Map<string, ValidateFunction>();
+const compiled = new Map<string, { validate: ValidateFunction; schema: SchemaNode }>();
 
-function validatorFor(schemaName: string): ValidateFunction {
-  let validate = compiled.get(schemaName);
-  if (!validate) {
+/** The parts of a JSON Schema node that messages read. */
+interface SchemaNode {
+  readonly $ref?: string;
+  readonly type?: string | readonly string[];
+  readonly enum?: readonly unknown[];
+  readonly const?: unknown;
+  readonly properties?: Readonly<Record<string, SchemaNode>>;
+}
+
+function validatorFor(schemaName: string): { validate: ValidateFunction; schema: SchemaNode } {
+  let entry = compiled.get(schemaName);
+  if (!entry) {
     const url = new URL(`../../schemas/${schemaName}`, import.meta.url);
-    validate = ajv.compile(JSON.parse(readFileSync(url, "utf8")) as object);
-    compiled.set(schemaName, validate);
+    const schema = JSON.parse(readFileSync(url, "utf8")) as SchemaNode;
+    entry = { validate: ajv.compile(schema), schema };
+    compiled.set(schemaName, entry);
   }
-  return validate;
+  return entry;
+}
+
+/** Follows a local reference ("#/definitions/probability") to the node it names. */
+function resolveRef(node: SchemaNode, root: SchemaNode): SchemaNode {
+  let n = node;
+  for (let hops = 0; n.$ref?.startsWith("#/") && hops < 10; hops++) {
+    let target: unknown = root;
+    for (const part of n.$ref.slice(2).split("/")) target = (target as Record<string, unknown>)[part];
+    n = target as SchemaNode;
+  }
+  return n;
+}
+
+/** What a schema node asks for, in words ("a number", "one of affect, behaviour"). */
+function describeExpected(node: SchemaNode | undefined, root: SchemaNode): string {
+  if (node === undefined) return "a value";
+  const n = resolveRef(node, root);
+  if (n.enum) return `one of ${n.enum.map(String).join(", ")}`;
+  if ("const" in n) return String(n.const);
+  if (n.type !== undefined) return expectedText(typeof n.type === "string" ? [n.type] : n.type);
+  return "a value";
 }
 
 /** Where a key path sits in the YAML text, for messages. */
@@ -57,13 +88,13 @@ export function loadYaml(path: string, what: string): LoadedYaml {
     const lines = doc.errors.slice(0, 5).map((e) => {
       // Without prettyErrors the parser gives offsets only; the line counter turns them into line:col.
       const { line, col } = lineCounter.linePos(e.pos[0]);
-      let text = e.message.split("\n")[0] ?? e.message;
+      // The parser's own wording for these two speaks to programmers; say what to do with the file.
+      if (e.code === "MULTIPLE_DOCS") return msg.severalDocuments(path, line, col);
       if (e.code === "DUPLICATE_KEY") {
         const keyPath = keyPathAt(doc.contents, e.pos[0]);
-        if (keyPath !== null)
-          text = `${text}: the key ${JSON.stringify(keyPath.join("."))} appears more than once`;
+        return msg.duplicateKey(path, line, col, keyPath === null ? null : keyPath.join("."));
       }
-      return msg.yamlSyntax(path, line, col, text);
+      return msg.yamlSyntax(path, line, col, e.message.split("\n")[0] ?? e.message);
     });
     throw new SettingsError(lines.join("\n"));
   }
@@ -153,22 +184,8 @@ function valueAt(data: unknown, path: readonly string[]): unknown {
 function expectation(error: ErrorObject): string {
   const p = error.params as Record<string, unknown>;
   switch (error.keyword) {
-    case "type": {
-      const t = String(p.type);
-      const names: Record<string, string> = {
-        number: "a number",
-        integer: "a whole number",
-        string: "text",
-        boolean: "true or false",
-        object: "a mapping of keys",
-        array: "a list",
-        null: "an empty value",
-      };
-      return `expected ${t
-        .split(",")
-        .map((x) => names[x] ?? x)
-        .join(" or ")}`;
-    }
+    case "type":
+      return `expected ${expectedText(String(p.type).split(","))}`;
     case "enum":
       return `expected one of ${(p.allowedValues as unknown[]).map(String).join(", ")}`;
     case "const":
@@ -190,7 +207,7 @@ function expectation(error: ErrorObject): string {
     case "maxLength":
       return `expected at most ${String(p.limit)} characters`;
     case "pattern":
-      return `expected text of the form ${String(p.pattern)}`;
+      return `expected ${msg.patternText(String(p.pattern))}`;
     case "uniqueItems":
       return "expected each item once";
     case "minProperties":
@@ -202,7 +219,7 @@ function expectation(error: ErrorObject): string {
 
 /** Validates `data` with a schema from `schemas/`; throws one SettingsError listing every problem. */
 export function validateWithSchema(loaded: LoadedYaml, schemaName: string, topKeyHint: string): void {
-  const validate = validatorFor(schemaName);
+  const { validate, schema } = validatorFor(schemaName);
   if (validate(loaded.data)) return;
   const problems: string[] = [];
   const seen = new Set<string>();
@@ -227,9 +244,12 @@ export function validateWithSchema(loaded: LoadedYaml, schemaName: string, topKe
       where = loaded.locate([...path, key], true);
       text = msg.unknownKey(path.length > 0 ? `${dotted}.${key}` : key, allowed);
     } else if (error.keyword === "required") {
+      const key = String(p.missingProperty);
+      const parent = error.parentSchema as SchemaNode;
       where = loaded.locate(path);
       text = msg.missingKey(
-        path.length > 0 ? `${dotted}.${String(p.missingProperty)}` : String(p.missingProperty),
+        path.length > 0 ? `${dotted}.${key}` : key,
+        describeExpected(parent.properties?.[key], schema),
       );
     } else if (error.keyword === "propertyNames") {
       const name = String(p.propertyName);

@@ -304,6 +304,49 @@ export function readRecordsFromFile(path: string, sink: RecordSink, options: Rea
   }
 }
 
+/** Where a field starts in the file, and its text. */
+export interface FieldPlace {
+  readonly line: number;
+  readonly column: number;
+  readonly text: string;
+}
+
+/**
+ * Field `field` of the record that starts on `line`, read again from the file; null when no record
+ * starts there. For messages about a row known only by its line (rows that disagree are found after
+ * reading); reading stops at that record.
+ */
+export function findField(
+  path: string,
+  line: number,
+  field: number,
+  options: ReadOptions = {},
+): FieldPlace | null {
+  let found: FieldPlace | null = null;
+  const stop = new Error("found");
+  try {
+    readRecordsFromFile(
+      path,
+      {
+        record(view) {
+          if (view.line < line) return;
+          if (view.line === line && field < view.count)
+            found = { line: view.lineOf(field), column: view.column(field), text: view.text(field) };
+          throw stop;
+        },
+        problem(problem) {
+          if (problem.line >= line) throw stop;
+        },
+        blank() {},
+      },
+      options,
+    );
+  } catch (error) {
+    if (error !== stop) throw error;
+  }
+  return found;
+}
+
 /** The same over bytes in memory (tests, small inputs). */
 export function readRecordsFromBuffer(data: Uint8Array, sink: RecordSink, options: ReadOptions = {}): void {
   let at = 0;

@@ -1,7 +1,8 @@
 /**
  * Small CSV tables (sessions file, roster): the same record reader as the windows file, with every
  * field decoded to text. Rows with broken structure are counted in the RowAccount with their
- * location; a missing file or header is fatal.
+ * location (in strict mode the account stops the run at the first); a missing file or header is
+ * fatal.
  */
 import { basename } from "node:path";
 import { InputError } from "../errors.js";
@@ -24,14 +25,19 @@ export interface TableHeader {
   readonly index: ReadonlyMap<string, number>;
 }
 
-export function readCsvTable(
-  path: string,
-  what: string,
-  account: RowAccount,
-  required: readonly string[],
-  onRow: (row: TableRow, header: TableHeader) => void,
-  onHeader?: (header: TableHeader) => void,
-): TableHeader {
+export interface CsvTableOptions {
+  readonly path: string;
+  /** What the file is, for messages ("roster"). */
+  readonly what: string;
+  readonly account: RowAccount;
+  readonly required: readonly string[];
+  /** Each data row whose field count matches the header's. */
+  readonly onRow: (row: TableRow, header: TableHeader) => void;
+  readonly onHeader?: (header: TableHeader) => void;
+}
+
+export function readCsvTable(options: CsvTableOptions): TableHeader {
+  const { path, what, account, required, onRow, onHeader } = options;
   const file = basename(path);
   let header: TableHeader | null = null;
   let rows = 0;

@@ -1,8 +1,13 @@
 /**
  * The data-quality account: every row read is either accepted, rejected with a reason, or an
  * exact duplicate counted once. Nothing is dropped without being counted here.
+ *
+ * Strictness lives here too, so that no reader can forget it: with `strict` set (settings
+ * `strict: true`), the first rejection throws a StrictRowError naming its location instead of being
+ * counted.
  */
-import { REJECT_REASONS, type RejectReason } from "../messages.js";
+import { StrictRowError } from "../errors.js";
+import { msg, REJECT_REASONS, type RejectReason } from "../messages.js";
 
 export interface Example {
   /** file:line or file:line:column */
@@ -20,6 +25,13 @@ export interface ReasonCount {
   readonly examples: readonly Example[];
 }
 
+export interface AccountOptions {
+  /** Examples kept per reason (settings `examples_per_reason`). */
+  readonly examplesPerReason: number;
+  /** Stop at the first rejected row (settings `strict`). */
+  readonly strict: boolean;
+}
+
 export class RowAccount {
   rowsRead = 0;
   blankLines = 0;
@@ -29,22 +41,24 @@ export class RowAccount {
 
   constructor(
     readonly file: string,
-    private readonly examplesPerReason: number,
+    private readonly options: AccountOptions,
   ) {}
 
+  /** Counts a rejected row; in strict mode, stops the run there instead. */
   reject(reason: RejectReason, example: Example): void {
+    if (this.options.strict) throw new StrictRowError(msg.strictStop(REJECT_REASONS[reason], example));
     let entry = this.reasons.get(reason);
     if (!entry) {
       entry = { count: 0, examples: [] };
       this.reasons.set(reason, entry);
     }
     entry.count++;
-    if (entry.examples.length < this.examplesPerReason) entry.examples.push(example);
+    if (entry.examples.length < this.options.examplesPerReason) entry.examples.push(example);
   }
 
   duplicate(example: Example): void {
     this.duplicates++;
-    if (this.duplicateExamples.length < this.examplesPerReason) this.duplicateExamples.push(example);
+    if (this.duplicateExamples.length < this.options.examplesPerReason) this.duplicateExamples.push(example);
   }
 
   get rejected(): number {

@@ -1,6 +1,8 @@
 /** The optional roster: who a student is to the reader (name, school, grade, counselor, setting). */
 import { basename } from "node:path";
 import type { Settings } from "../config/types.js";
+import { msg } from "../messages.js";
+import { findField } from "./csv-records.js";
 import { readCsvTable } from "./csv-table.js";
 import { location, RowAccount } from "./quality.js";
 
@@ -22,17 +24,26 @@ export interface Roster {
 
 const OPTIONAL = ["display_name", "school_id", "grade", "counselor", "setting"] as const;
 
+/** The roster's columns after student_id, and their fields. */
+const ENTRY_COLUMNS = [
+  ["display_name", "displayName"],
+  ["school_id", "schoolId"],
+  ["grade", "grade"],
+  ["counselor", "counselor"],
+  ["setting", "setting"],
+] as const satisfies readonly (readonly [(typeof OPTIONAL)[number], keyof RosterEntry])[];
+
 export function readRoster(path: string, settings: Settings): Roster {
   const file = basename(path);
-  const account = new RowAccount(file, settings.examplesPerReason);
+  const account = new RowAccount(file, settings);
   const found = new Map<string, { entry: RosterEntry; line: number; lines: number[]; conflict: boolean }>();
   let ignored: string[] = [];
-  readCsvTable(
+  readCsvTable({
     path,
-    "roster",
+    what: "roster",
     account,
-    ["student_id"],
-    (row, header) => {
+    required: ["student_id"],
+    onRow(row, header) {
       const cell = (name: string): string => {
         const i = header.index.get(name);
         return i === undefined ? "" : row.cells[i]!.trim();
@@ -63,18 +74,31 @@ export function readRoster(path: string, settings: Settings): Roster {
         setting: cell("setting"),
       };
       const seen = found.get(studentId);
-      if (!seen) found.set(studentId, { entry, line: row.line, lines: [], conflict: false });
-      else {
-        seen.lines.push(row.line);
-        if (JSON.stringify(seen.entry) !== JSON.stringify(entry)) seen.conflict = true;
+      if (!seen) {
+        found.set(studentId, { entry, line: row.line, lines: [], conflict: false });
+        return;
+      }
+      seen.lines.push(row.line);
+      if (JSON.stringify(seen.entry) === JSON.stringify(entry)) return;
+      seen.conflict = true;
+      // Strict mode stops here, at the earliest of the rows, in the first column where they differ.
+      if (settings.strict) {
+        const name = ENTRY_COLUMNS.find((n) => seen.entry[n[1]] !== entry[n[1]])?.[0] ?? "student_id";
+        const place = findField(path, seen.line, header.index.get(name) ?? idColumn);
+        account.reject("conflict", {
+          at: location(file, place?.line ?? seen.line, place?.column),
+          column: name,
+          ...(place ? { value: place.text } : {}),
+          detail: msg.conflictWith(seen.line, [seen.line, ...seen.lines]),
+        });
       }
     },
-    (header) => {
+    onHeader(header) {
       ignored = header.names.filter(
         (n) => n !== "student_id" && !(OPTIONAL as readonly string[]).includes(n),
       );
     },
-  );
+  });
   const entries = new Map<string, RosterEntry>();
   for (const [id, f] of found) {
     if (f.conflict) {

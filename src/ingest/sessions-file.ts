@@ -5,9 +5,9 @@
  */
 import { basename } from "node:path";
 import type { Card, Settings } from "../config/types.js";
-import { StrictRowError } from "../errors.js";
-import { msg, REJECT_REASONS, type RejectReason } from "../messages.js";
+import { msg, type RejectReason } from "../messages.js";
 import { compareSummaries, type SessionSummary } from "../summaries/types.js";
+import { findField } from "./csv-records.js";
 import { readCsvTable } from "./csv-table.js";
 import { location, RowAccount } from "./quality.js";
 import { validCalendarDate } from "./timestamp.js";
@@ -37,11 +37,22 @@ export interface SessionsResult {
   readonly unknownConstructs: readonly string[];
 }
 
+/** The columns that may differ between rows with the same key, and their fields. */
+const VALUE_COLUMNS = [
+  ["day", "day"],
+  ["windows", "windows"],
+  ["sum_p", "sumP"],
+  ["sum_p2", "sumP2"],
+  ["above", "above"],
+  ["sustained_episodes", "sustainedEpisodes"],
+  ["longest_run", "longestRun"],
+] as const satisfies readonly (readonly [string, keyof SessionSummary])[];
+
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
 export function readSessionsFile(path: string, card: Card, settings: Settings): SessionsResult {
   const file = basename(path);
-  const account = new RowAccount(file, settings.examplesPerReason);
+  const account = new RowAccount(file, settings);
   const constructs = new Set(card.constructs.map((c) => c.key));
   const unknownConstructs = new Set<string>();
   const byKey = new Map<string, { row: SessionSummary; line: number; lines: number[]; conflict: boolean }>();
@@ -50,21 +61,19 @@ export function readSessionsFile(path: string, card: Card, settings: Settings): 
   const known = new Set<string>([...REQUIRED, "activity_id"]);
 
   const reject = (reason: RejectReason, line: number, column?: number, name?: string, value?: string) => {
-    const at = location(file, line, column);
-    if (settings.strict) throw new StrictRowError(msg.strictStop(at, REJECT_REASONS[reason]));
     account.reject(reason, {
-      at,
+      at: location(file, line, column),
       ...(name === undefined ? {} : { column: name }),
       ...(value === undefined ? {} : { value }),
     });
   };
 
-  readCsvTable(
+  readCsvTable({
     path,
-    "sessions file",
+    what: "sessions file",
     account,
-    REQUIRED,
-    (row, header) => {
+    required: REQUIRED,
+    onRow(row, header) {
       const col = (name: string): number => header.index.get(name) ?? -1;
       const cell = (name: string): string => (col(name) < 0 ? "" : row.cells[col(name)]!);
       const at = (name: string): number => row.columns[col(name)] ?? 1;
@@ -157,13 +166,25 @@ export function readSessionsFile(path: string, card: Card, settings: Settings): 
         return;
       }
       seen.lines.push(row.line);
-      if (JSON.stringify(seen.row) !== JSON.stringify(summary)) seen.conflict = true;
+      if (JSON.stringify(seen.row) === JSON.stringify(summary)) return;
+      seen.conflict = true;
+      // Strict mode stops here, at the earliest of the rows, in the first column where they differ.
+      if (settings.strict) {
+        const name = VALUE_COLUMNS.find((n) => seen.row[n[1]] !== summary[n[1]])?.[0] ?? "student_id";
+        const place = findField(path, seen.line, col(name));
+        account.reject("conflict", {
+          at: location(file, place?.line ?? seen.line, place?.column),
+          column: name,
+          ...(place ? { value: place.text } : {}),
+          detail: msg.conflictWith(seen.line, [seen.line, ...seen.lines]),
+        });
+      }
     },
-    (header) => {
+    onHeader(header) {
       hasActivity = header.index.has("activity_id");
       ignored = header.names.filter((n) => !known.has(n));
     },
-  );
+  });
 
   const summaries: SessionSummary[] = [];
   for (const entry of byKey.values()) {

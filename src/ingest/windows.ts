@@ -15,11 +15,17 @@
  */
 import { basename } from "node:path";
 import type { Card, Settings } from "../config/types.js";
-import { InputError, StrictRowError } from "../errors.js";
-import { msg, REJECT_REASONS, type RejectReason } from "../messages.js";
+import { InputError } from "../errors.js";
+import { msg, type RejectReason } from "../messages.js";
 import { ConstructPlan, type PartIds, SessionAccumulator } from "../summaries/session-accumulator.js";
 import { compareSummaries, type SessionSummary } from "../summaries/types.js";
-import { type RecordProblem, type RecordSink, type RecordView, readRecordsFromFile } from "./csv-records.js";
+import {
+  findField,
+  type RecordProblem,
+  type RecordSink,
+  type RecordView,
+  readRecordsFromFile,
+} from "./csv-records.js";
 import { EMPTY, parseNumber } from "./number.js";
 import { location, RowAccount } from "./quality.js";
 import { parseTimestamp } from "./timestamp.js";
@@ -192,7 +198,7 @@ export function summarizeWindowsFile(
   onBytes?: (bytes: Buffer) => void,
 ): WindowsResult {
   const file = basename(path);
-  const account = new RowAccount(file, settings.examplesPerReason);
+  const account = new RowAccount(file, settings);
   const sittings = new Map<string, Sitting>();
   const maxBytes = settings.maxFieldChars * 4;
   let layout: Layout | null = null;
@@ -215,10 +221,8 @@ export function summarizeWindowsFile(
     detail?: string,
   ) => {
     if (pass > 0) return; // counted in pass 1
-    const at = location(file, line, column);
-    if (settings.strict) throw new StrictRowError(msg.strictStop(at, REJECT_REASONS[reason]));
     account.reject(reason, {
-      at,
+      at: location(file, line, column),
       ...(name === undefined ? {} : { column: name }),
       ...(value === undefined ? {} : { value: value.length > 80 ? `${value.slice(0, 77)}...` : value }),
       ...(detail === undefined ? {} : { detail }),
@@ -347,13 +351,14 @@ export function summarizeWindowsFile(
     },
   };
 
+  const maxRecordBytes = Math.max(1 << 20, maxBytes * 64);
   const read = (): void => {
     sawHeader = false;
     current = null;
     prev.valid = false;
     try {
       readRecordsFromFile(path, sink, {
-        maxRecordBytes: Math.max(1 << 20, maxBytes * 64),
+        maxRecordBytes,
         ...(pass === 0 && onBytes ? { onBytes } : {}),
       });
     } catch (error) {
@@ -369,6 +374,36 @@ export function summarizeWindowsFile(
   if (!sawHeader) throw new InputError(msg.emptyFile(path, "windows file"));
   if (account.rowsRead === 0) throw new InputError(msg.headerOnly(path, "windows file"));
 
+  /**
+   * Strict mode, rows that disagree: stop at the earliest of them, at a field where it differs from
+   * another (read again from the file, as the replay keeps no columns).
+   */
+  const stopOnConflict: ConflictStop | null = settings.strict
+    ? (s, b, rows, lines) => {
+        const lay = layout!;
+        const k = plan!.keys.length;
+        const byLine = [...rows].sort((i, j) => b.lines[i]! - b.lines[j]!);
+        const first = byLine[0]!;
+        // A group holds at least two rows that differ, so some row differs from the first.
+        let field = lay.time;
+        for (const r of byLine) {
+          const d = differingField(s, b, k, first, r);
+          if (d === null) continue;
+          if (d.kind === "part") field = lay.ids[d.slot]!;
+          else if (d.kind === "value") field = lay.constructCols[d.construct]!;
+          break;
+        }
+        const line = b.lines[first]!;
+        const place = findField(path, line, field, { maxRecordBytes });
+        account.reject("conflict", {
+          at: location(file, place?.line ?? line, place?.column),
+          column: lay.names[field]!,
+          ...(place ? { value: place.text } : {}),
+          detail: msg.conflictWith(line, lines),
+        });
+      }
+    : null;
+
   const replayed = planReplay(sittings, plan!.keys.length);
   for (let batch = 1; batch <= replayed.batches; batch++) {
     pass = batch;
@@ -377,7 +412,7 @@ export function summarizeWindowsFile(
     read();
     for (const s of sittings.values()) {
       if (s.replay && s.batch === batch) {
-        replaySitting(s, plan!.keys.length, account, file, settings);
+        replaySitting(s, plan!.keys.length, account, file, stopOnConflict);
         s.buffer = null;
       }
     }
@@ -435,8 +470,49 @@ function planReplay(sittings: Map<string, Sitting>, k: number): { batches: numbe
   return { batches: batch, count };
 }
 
+/** Stops the run on buffered rows of a sitting that share a window_start but disagree (strict mode). */
+type ConflictStop = (s: Sitting, b: ReplayBuffer, rows: readonly number[], lines: readonly number[]) => void;
+
+const PART_SLOTS = [
+  ["classId", 2],
+  ["schoolId", 3],
+  ["unitId", 4],
+  ["activityId", 5],
+] as const;
+
+/**
+ * The first field in which buffered rows i and j of a sitting differ: an id of the part (its slot
+ * in Layout.ids), a construct's value, or else the window_start's UTC offset (the same instant
+ * written two ways); null when they agree.
+ */
+function differingField(
+  s: Sitting,
+  b: ReplayBuffer,
+  k: number,
+  i: number,
+  j: number,
+): { kind: "part"; slot: number } | { kind: "value"; construct: number } | { kind: "time" } | null {
+  if (b.parts[i] !== b.parts[j]) {
+    const p = s.acc.parts[b.parts[i]!]!;
+    const q = s.acc.parts[b.parts[j]!]!;
+    for (const [key, slot] of PART_SLOTS) if (p[key] !== q[key]) return { kind: "part", slot };
+  }
+  for (let c = 0; c < k; c++) {
+    const x = b.values[i * k + c]!;
+    const y = b.values[j * k + c]!;
+    if (x !== y && !(Number.isNaN(x) && Number.isNaN(y))) return { kind: "value", construct: c };
+  }
+  return b.offsets[i] === b.offsets[j] ? null : { kind: "time" };
+}
+
 /** Sorts one sitting's rows by time, sets aside duplicates and conflicts, and reduces it in order. */
-function replaySitting(s: Sitting, k: number, account: RowAccount, file: string, settings: Settings): void {
+function replaySitting(
+  s: Sitting,
+  k: number,
+  account: RowAccount,
+  file: string,
+  stopOnConflict: ConflictStop | null,
+): void {
   const b = s.buffer!;
   const order = Array.from({ length: b.n }, (_, i) => i);
   const rowCompare = (i: number, j: number): number => {
@@ -462,12 +538,11 @@ function replaySitting(s: Sitting, k: number, account: RowAccount, file: string,
     let identical = true;
     for (let m = i + 1; m < j; m++) if (rowCompare(first, order[m]!) !== 0) identical = false;
     if (!identical) {
-      const lines = order.slice(i, j).map((r) => b.lines[r]!);
-      for (const line of lines) {
-        const at = location(file, line);
-        if (settings.strict) throw new StrictRowError(msg.strictStop(at, REJECT_REASONS.conflict));
-        account.reject("conflict", { at, value: msg.conflictWith(line, lines) });
-      }
+      const rows = order.slice(i, j);
+      const lines = rows.map((r) => b.lines[r]!);
+      stopOnConflict?.(s, b, rows, lines);
+      for (const line of lines)
+        account.reject("conflict", { at: location(file, line), value: msg.conflictWith(line, lines) });
     } else {
       for (let m = i + 1; m < j; m++) {
         const at = location(file, b.lines[order[m]!]!);

@@ -57,7 +57,7 @@ export const LAUNCH_ARGS = [
   "--disable-sync",
 ];
 
-const escape = (s: string) =>
+const escapeText = (s: string) =>
   s.replace(/[&<>"]/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[c] as string);
 
 /** Joins full pages into one printable document: the first page's head, every page's main content. */
@@ -65,7 +65,7 @@ export function bundle(title: string, pages: readonly string[]): string {
   const first = pages[0] ?? "";
   const head = first
     .slice(0, first.indexOf("</head>"))
-    .replace(/<title>[^<]*<\/title>/, `<title>${escape(title)}</title>`);
+    .replace(/<title>[^<]*<\/title>/, `<title>${escapeText(title)}</title>`);
   const mains = pages.map((p, i) => {
     const start = p.indexOf('<main id="main">');
     const end = p.lastIndexOf("</main>");
