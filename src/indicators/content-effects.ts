@@ -247,15 +247,15 @@ function finishOne(
   const range = relative
     ? `${(effect.low * 100).toFixed(1)} to ${(effect.high * 100).toFixed(1)} points`
     : `${(effect.low * 100).toFixed(1)} to ${(effect.high * 100).toFixed(1)} minutes in every 100`;
-  let text = `The same ${plural(r.students, "student")} showed ${more} ${lower(label)} here than in the rest of their work: about ${amount(effect.value)} (plausible range ${range}).`;
+  let text = `The same ${plural(r.students, "student")} showed ${more} ${lower(label)} here than in the rest of their work. The gap is about ${amount(effect.value)} (range ${range}).`;
   text += ` ${chanceText(q, family)}`;
   if (r.schoolsCompared >= 2)
     text += ` ${r.schoolsAgreeing} of ${r.schoolsCompared} schools point the same way.`;
   text += review
     ? " Worth a review of the content."
     : concernSide
-      ? " Could still be chance among this many comparisons; no review suggested."
-      : " No review suggested.";
+      ? " This could still be chance, so no review is suggested."
+      : " No review is suggested.";
   if (relative) text += ` ${reasons.relative}`;
   return {
     ...base,
@@ -270,5 +270,5 @@ function finishOne(
 
 function chanceText(q: number, family: number): string {
   const shown = q < 0.001 ? "under 0.001" : q.toFixed(3);
-  return `Across all ${family} comparisons, the chance-finding measure (q-value) is ${shown}${q < 0.05 ? ", so chance is an unlikely explanation" : ""}.`;
+  return `We made ${family} such tests. The q-value, a chance measure that allows for that, is ${shown}${q < 0.05 ? ", so chance is not a likely cause" : ""}.`;
 }

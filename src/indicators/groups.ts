@@ -171,7 +171,7 @@ export function groupIndicators(
         ? "."
         : `: ${reasons.noRatio(construct.label, peers)}.`;
     if (share)
-      text += ` About ${boundedPercent(share.value, students, settings.suppressionSize)} of observed time (plausible range ${boundedPercent(share.low, students, settings.suppressionSize)} to ${boundedPercent(share.high, students, settings.suppressionSize)}).`;
+      text += ` About ${boundedPercent(share.value, students, settings.suppressionSize)} of observed time (range ${boundedPercent(share.low, students, settings.suppressionSize)} to ${boundedPercent(share.high, students, settings.suppressionSize)}).`;
     if (elevated)
       text += ` The whole range lies ${ctx.direction === "higher" ? "above" : "below"} ${ratioText(settings.flags.groupRatio)} times: a pattern worth planning support around, not a judgement of the teacher.`;
     if (correction.mode === "relative") text += ` ${reasons.relative}`;

@@ -28,7 +28,7 @@ export function lower(label: string): string {
 
 export const reasons = {
   detectorTooWeak: (label: string, auc: number, floor: number): string =>
-    `The ${lower(label)} detector's A' is ${auc.toFixed(2)}, below the floor of ${floor.toFixed(2)}: too close to chance (0.50) to judge by, so no figure is shown.`,
+    `The ${lower(label)} detector's A' is ${auc.toFixed(2)}, below the floor of ${floor.toFixed(2)}. That is too close to chance (0.50) to judge by, so no figure is shown.`,
 
   studentTooLittle: (o: {
     sessions: number;
@@ -44,25 +44,25 @@ export const reasons = {
     `Across ${plural(sessions, "session")} on ${plural(days, "day")}`,
 
   ratio: (label: string, r: Estimate, peers: string): string =>
-    `the estimates show ${lower(label)} about ${ratioText(r.value)} times as often as in ${peers} on the same units; plausible range ${ratioText(r.low)} to ${ratioText(r.high)}`,
+    `the estimates show ${lower(label)} about ${ratioText(r.value)} times as often as in ${peers} on the same units. The plausible range is ${ratioText(r.low)} to ${ratioText(r.high)}`,
 
   noRatio: (label: string, peers: string): string =>
     `${peers} on the same units showed too little ${lower(label)} for a comparison`,
 
   share: (s: Estimate): string =>
-    `about ${percentText(s.value)} of observed time (plausible range ${percentText(s.low)} to ${percentText(s.high)})`,
+    `about ${percentText(s.value)} of observed time (range ${percentText(s.low)} to ${percentText(s.high)})`,
 
   flagged: (direction: "higher" | "lower", line: number): string =>
-    `The whole range lies ${direction === "higher" ? "above" : "below"} ${ratioText(line)} times, the line for a check-in.`,
+    `The whole range is ${direction === "higher" ? "above" : "below"} ${ratioText(direction === "higher" ? line : 1 / line)}, the line for a check-in.`,
 
   nearLine: (direction: "higher" | "lower"): string =>
     `May be ${direction}; not enough yet to suggest a check-in.`,
 
-  usual: "Within the usual range.",
+  usual: "This is in the usual range.",
 
   sustained: (perHour: number, peerPerHour: number, minutes: number): string =>
-    `Sustained episodes (${minutes} minutes or more): ${perHour.toFixed(1)} per hour, against ${peerPerHour.toFixed(1)} for peers on the same units.`,
+    `Long runs of ${minutes} minutes or more: ${perHour.toFixed(1)} an hour; others on the same units: ${peerPerHour.toFixed(1)} an hour.`,
 
   relative:
-    "Relative mode: the detector card has no validation figures, so no share of time is shown and the ratio understates real differences.",
+    "Relative mode: the detector card has no check figures. So no share of time is shown, and the ratio shows less than the real gap.",
 };

@@ -42,7 +42,9 @@ export function labelSvg(svg: string, labels: SvgLabels): string {
   checkChartId(labels.id);
   const end = svg.indexOf(">");
   if (!svg.startsWith("<svg ") || end < 0) throw new Error("vega did not return an <svg> element");
-  const body = svg.slice(end + 1);
+  // Inside role="img" every child is presentational: roles vega still puts on some mark groups
+  // (graphics-symbol without a name) would be reported as images without text (axe svg-img-alt).
+  const body = svg.slice(end + 1).replace(ROOT_ARIA, "");
   let root = svg.slice(0, end).replace(ROOT_ARIA, "");
   if (!body.includes("xlink:")) root = root.replace(XLINK_DECLARATION, "");
   const titleId = `${labels.id}-title`;
