@@ -17,6 +17,8 @@ export interface ConstructContext {
   readonly direction: "higher" | "lower";
   /** Within-session correlation of the signal, pooled over students (cluster-mean.ts). */
   readonly correlation: number;
+  /** Design effect assumed for the card's validation sample (see constructContext). */
+  readonly validationDesignEffect: number;
   /** Two-sided critical value at the settings' level for the given degrees of freedom. */
   critical(degreesOfFreedom: number): number;
 }
@@ -28,17 +30,34 @@ export function constructContext(
   correction: Correction,
   data: ConstructData,
 ): ConstructContext {
-  const correlation = pooledCorrelation(
-    [...data.students.values()].map((s) => clusterParts(s.sessions.values())),
-  );
+  const parts = [...data.students.values()].map((s) => clusterParts(s.sessions.values()));
+  const correlation = pooledCorrelation(parts);
+  // The card's validation figures come from coded windows that were themselves grouped in sessions,
+  // so their sampling variance is larger than sd²/n. The card does not say how they were grouped;
+  // we assume like the local data: Kish's design effect 1 + (M̄ − 1)ρ with M̄ the windows-weighted
+  // mean session length here and ρ the pooled within-session correlation. It widens every interval
+  // by the correction's share of the uncertainty, never narrows it.
+  let n = 0;
+  let nm = 0;
+  for (const p of parts) {
+    n += p.n;
+    nm += p.n * p.meanClusterSize;
+  }
+  const validationDesignEffect = 1 + Math.max(0, (n > 0 ? nm / n : 1) - 1) * correlation;
+  const widened: Correction = {
+    ...correction,
+    offsetVariance: correction.offsetVariance * validationDesignEffect,
+    inStateVariance: correction.inStateVariance * validationDesignEffect,
+  };
   const cache = new Map<number, number>();
   const tail = (1 + settings.confidence) / 2;
   return {
     card,
     construct,
     settings,
-    correction,
+    correction: widened,
     data,
+    validationDesignEffect,
     usable: construct.auc >= card.aucFloor,
     direction: construct.higherIs === "good" ? "lower" : "higher",
     correlation,

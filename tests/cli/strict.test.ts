@@ -158,13 +158,10 @@ describe("strict mode on the command line", () => {
       "--out",
       "sessions.csv",
     ]);
-    // A conflict concerns whole rows; the message names the first of them (line 2) and, so far, no column.
-    expectStopped(
-      r,
-      /^engagement-report: windows\.csv:2(:\d+)?: two or more rows with the same key/,
-      dir,
-      before,
-    );
+    // The earliest of the rows (line 2), at the first field where it differs from line 4: bored,
+    // at character 38 (counted by hand), with its value and the other line.
+    expectStopped(r, "windows.csv:2:38", dir, before);
+    expect(r.stderr).toContain('column bored, value "0.6"; same key as line 4, with different values.');
   });
 
   it("build from a sessions file: a value that is not a number stops the run", () => {
@@ -187,9 +184,7 @@ describe("strict mode on the command line", () => {
     expectStopped(r, "sessions.csv:3:32", dir, before);
   });
 
-  // Known gaps (reported; remove `.fails` when fixed): the sessions file's structural checks and the
-  // roster's row checks count rejected rows without consulting `strict`, so these runs succeed.
-  it.fails("build from a sessions file: a row with a missing field stops the run", () => {
+  it("build from a sessions file: a row with a missing field stops the run", () => {
     const dir = workspace({
       "sessions.csv": csv(SESSIONS_HEADER, SESSION_ROW, "s1,c1,,u1,y,2026-02-03,bored,3,1.5,0.9,2,0"),
     });
@@ -205,10 +200,38 @@ describe("strict mode on the command line", () => {
       "--out",
       "report",
     ]);
-    expectStopped(r, /^engagement-report: sessions\.csv:3:\d+: /, dir, before);
+    // The row ends after character 42 (counted by hand), so the missing longest_run would start at 43.
+    expectStopped(r, "sessions.csv:3:43", dir, before);
+    expect(r.stderr).toContain("the row ends after sustained_episodes, so longest_run is missing");
   });
 
-  it.fails("build with a roster: a roster row without a student_id stops the run", () => {
+  it("build from a sessions file: rows with the same key that disagree stop the run at the earlier", () => {
+    const dir = workspace({
+      "sessions.csv": csv(
+        SESSIONS_HEADER,
+        SESSION_ROW,
+        "s2,c1,,u1,x,2026-02-03,bored,3,1.5,0.9,2,0,2",
+        "s1,c1,,u1,x,2026-02-03,bored,3,1.6,0.9,2,0,2",
+      ),
+    });
+    const before = readdirSync(dir).sort();
+    const r = run(dir, [
+      "build",
+      "--sessions",
+      "sessions.csv",
+      "--card",
+      "card.yaml",
+      "--settings",
+      "strict.yaml",
+      "--out",
+      "report",
+    ]);
+    // Lines 2 and 4 differ first in sum_p, which starts at character 32 of line 2.
+    expectStopped(r, "sessions.csv:2:32", dir, before);
+    expect(r.stderr).toContain('column sum_p, value "1.5"; same key as line 4, with different values.');
+  });
+
+  it("build with a roster: a roster row without a student_id stops the run", () => {
     const dir = workspace({
       "windows.csv": csv(HEADER, ...GOOD),
       "roster.csv": csv("student_id,display_name", "s1,Ann Example", ",Nobody"),
@@ -228,5 +251,34 @@ describe("strict mode on the command line", () => {
       "report",
     ]);
     expectStopped(r, "roster.csv:3:1", dir, before);
+  });
+
+  it("build with a roster: two rows for one student that disagree stop the run at the earlier", () => {
+    const dir = workspace({
+      "windows.csv": csv(HEADER, ...GOOD),
+      "roster.csv": csv(
+        "student_id,display_name,grade",
+        "s1,Ann Example,5",
+        "s2,Bo Example,6",
+        "s1,Ann Example,6",
+      ),
+    });
+    const before = readdirSync(dir).sort();
+    const r = run(dir, [
+      "build",
+      "--windows",
+      "windows.csv",
+      "--roster",
+      "roster.csv",
+      "--card",
+      "card.yaml",
+      "--settings",
+      "strict.yaml",
+      "--out",
+      "report",
+    ]);
+    // Lines 2 and 4 differ in grade, which starts at character 16 of line 2.
+    expectStopped(r, "roster.csv:2:16", dir, before);
+    expect(r.stderr).toContain('column grade, value "5"; same key as line 4, with different values.');
   });
 });

@@ -4,10 +4,12 @@
  * text of each case (1-based, as editors show them).
  */
 import { readFileSync } from "node:fs";
+import { Ajv } from "ajv";
 import { describe, expect, it } from "vitest";
 import { stringify } from "yaml";
 import { DEFAULT_REASONS, DEFAULT_SETTINGS } from "../../src/config/defaults.js";
 import { loadSettings, settingsAsUsed } from "../../src/config/settings.js";
+import { PATTERN_TEXT } from "../../src/messages.js";
 import { loadFailure, yamlFile } from "./load-failure.js";
 
 const fail = (text: string) => loadFailure(loadSettings, text);
@@ -115,13 +117,61 @@ describe("loadSettings messages", () => {
 
   it("duplicate keys: location of the second one and its key path", () => {
     const a = fail("title: a\ntitle: b\n");
-    expect(a.message).toMatch(
-      new RegExp(`^${esc(a.path)}:2:1: not valid YAML: .*"title" appears more than once$`),
+    expect(a.message).toBe(
+      `${a.path}:2:1: not valid YAML: the key "title" appears more than once; keep one.`,
     );
     const b = fail("evidence:\n  min_days: 2\n  min_days: 3\n");
-    expect(b.message).toMatch(
-      new RegExp(`^${esc(b.path)}:3:3: not valid YAML: .*"evidence\\.min_days" appears more than once$`),
+    expect(b.message).toBe(
+      `${b.path}:3:3: not valid YAML: the key "evidence.min_days" appears more than once; keep one.`,
     );
+  });
+
+  it("several YAML documents in one file: where the second starts, and what to do", () => {
+    const a = fail("title: a\n---\ntitle: b\n");
+    expect(a.message).toBe(`${a.path}:2:1: the file holds several YAML documents (---); keep one.`);
+    // A document start marker before the first document is not a second document.
+    expect(loadSettings(yamlFile("---\ntitle: a\n")).title).toBe("a");
+  });
+
+  it("text that must have a form: the form in words, never a regular expression", () => {
+    const a = fail("build_time: yesterday\n");
+    expect(a.message).toBe(
+      `${a.path}:1:13: build_time: expected a date-time with offset such as 2026-09-01T08:00:00Z, found "yesterday"`,
+    );
+    // No offset: the same message (a build time without one is ambiguous).
+    const b = fail("build_time: 2026-11-30T12:00:00\n");
+    expect(b.message).toBe(
+      `${b.path}:1:13: build_time: expected a date-time with offset such as 2026-09-01T08:00:00Z, found "2026-11-30T12:00:00"`,
+    );
+    // The right form but no such day (Date.parse alone would read February 30 as March 2).
+    const c = fail("build_time: 2026-02-30T08:00:00Z\n");
+    expect(c.message).toBe(
+      `${c.path}:1:13: build_time: "2026-02-30T08:00:00Z" is not a real date and time; expected a date-time with offset such as 2026-09-01T08:00:00Z.`,
+    );
+    const d = fail("period:\n  to: 30/11/2026\n");
+    expect(d.message).toBe(
+      `${d.path}:2:7: period.to: expected a date such as 2026-09-01, found "30/11/2026"`,
+    );
+    const e = fail("pseudonymise:\n  key_env: REPORT-KEY\n");
+    expect(e.message).toBe(
+      `${e.path}:2:12: pseudonymise.key_env: expected the name of an environment variable (letters, digits and _, not starting with a digit), found "REPORT-KEY"`,
+    );
+    for (const m of [a, b, d, e].map((x) => x.message)) expect(m).not.toMatch(/\\d|\^|\$/);
+  });
+
+  it("every text pattern in the schemas has plain words in the messages", () => {
+    const patterns = new Set<string>();
+    const collect = (node: unknown): void => {
+      if (node === null || typeof node !== "object") return;
+      for (const [key, value] of Object.entries(node)) {
+        if (key === "pattern" && typeof value === "string") patterns.add(value);
+        else collect(value);
+      }
+    };
+    for (const name of ["settings.schema.json", "card.schema.json"])
+      collect(JSON.parse(readFileSync(new URL(`../../schemas/${name}`, import.meta.url), "utf8")));
+    expect(patterns.size).toBeGreaterThanOrEqual(4);
+    for (const pattern of patterns) expect(Object.keys(PATTERN_TEXT), pattern).toContain(pattern);
   });
 
   it("no file, an empty file or only comments: the defaults", () => {
@@ -150,6 +200,23 @@ describe("settings defaults and their reasons", () => {
     expect(sorted(used.keys())).toEqual(sorted(leaves.keys()));
     const withDefault = [...leaves].filter(([, node]) => "default" in node);
     for (const [path, node] of withDefault) expect(node.default, path).toEqual(used.get(path));
+  });
+
+  it("the settings as used, empty values (null) included, validate and load back to DEFAULT_SETTINGS", () => {
+    const asUsed = settingsAsUsed(DEFAULT_SETTINGS);
+    // These five are empty by default and written as null in the manifest.
+    const nulls = [...valueLeaves(asUsed)].filter(([, v]) => v === null).map(([k]) => k);
+    expect(sorted(nulls)).toEqual(
+      sorted(["period.from", "period.to", "pseudonymise.key_env", "pseudonymise.key_file", "build_time"]),
+    );
+    // Against the schema alone (Ajv 8, the validator the tool uses), then through the loader, as
+    // YAML and as the manifest's JSON (which YAML 1.2 reads as well).
+    const validate = new Ajv({ allowUnionTypes: true }).compile(schema);
+    expect(validate(asUsed), JSON.stringify(validate.errors)).toBe(true);
+    const yamlText = stringify(asUsed);
+    expect(yamlText).toContain("build_time: null");
+    expect(loadSettings(yamlFile(yamlText))).toEqual(DEFAULT_SETTINGS);
+    expect(loadSettings(yamlFile(JSON.stringify(asUsed, null, 2)))).toEqual(DEFAULT_SETTINGS);
   });
 
   it("a file that writes out every default value is valid and gives DEFAULT_SETTINGS", () => {

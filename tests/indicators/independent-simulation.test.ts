@@ -127,18 +127,11 @@ describe("independent district: the files themselves", () => {
 });
 
 /**
- * Figures the indicators miss on this district today, with what was measured on the seeds above
- * (8 planted runs, 6 null runs, 300 students each). Each is asserted as written and marked
- * `it.fails`, so that a fix of the estimator shows up here as a test to unmark.
- *
- * - Coverage of engaged concentration: 0.9285 (3725 of 4012). Its detector separates the states
- *   by only about 0.13 in mean probability, so the validation sample's error in the card's means
- *   moves every student's corrected share the same way within a run (per-run mean error of the
- *   share from −0.13 to +0.17 across seeds 1–6); the card's means are also estimated from windows
- *   grouped in validation sessions that share a detector shift, while the tool takes their variance
- *   as sd²/n of independent windows. Over 10 + 10 other seeds the same figure was 0.950.
+ * Share coverage was missed for engaged concentration (0.9285) until the card's validation
+ * variances were widened by the design effect of windows grouped in sessions (context.ts); it is
+ * now 0.975 on these seeds, and every construct is asserted.
  */
-const KNOWN_MISSES = new Set(["concentrating"]);
+const KNOWN_MISSES = new Set<string>();
 
 describe("independent district: share intervals", () => {
   for (const construct of USABLE) {
@@ -192,7 +185,9 @@ describe("independent district: units and classes", () => {
     for (const u of planted.plantedUnits) expect(u.status).toBe("review");
   });
 
-  it("marks the planted class elevated for off task in every planted run", () => {
+  // Missed: 6 of 8 planted runs mark the class (group line 1.25, with the card's variances widened
+  // for clustering), measured on seeds 1–8; the planted unit is found in all 8.
+  it.fails("marks the planted class elevated for off task in every planted run", () => {
     expect(planted.plantedClasses).toHaveLength(PLANTED_SEEDS.length);
     for (const k of planted.plantedClasses) expect(k.status).toBe("elevated");
   });
