@@ -6,7 +6,7 @@
  * running header with the caution and a footer with page numbers; the caution is also in each
  * page's body, since running headers are not read aloud.
  */
-import { existsSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { pathToFileURL } from "node:url";
@@ -75,7 +75,20 @@ export function bundle(title: string, pages: readonly string[]): string {
   return `${head}</head>\n<body>\n<main id="main">\n${mains.join("\n")}\n</main>\n</body>\n</html>\n`;
 }
 
-export async function printPdfs(jobs: readonly PdfJob[], chromium: string): Promise<void> {
+/**
+ * Chromium stamps each PDF's /CreationDate and /ModDate with the time of printing. With a fixed
+ * build time in the settings the whole output folder should be byte-identical from run to run, so
+ * the 14 digits of both dates are replaced by the build time (UTC), same length, offsets untouched.
+ */
+export function stampPdfDates(pdf: Buffer, when: Date): Buffer {
+  const digits = when.toISOString().replace(/[-:T]/g, "").slice(0, 14);
+  const text = pdf
+    .toString("latin1")
+    .replace(/\/(CreationDate|ModDate) \(D:\d{14}/g, (_m, key: string) => `/${key} (D:${digits}`);
+  return Buffer.from(text, "latin1");
+}
+
+export async function printPdfs(jobs: readonly PdfJob[], chromium: string, fixedTime?: Date): Promise<void> {
   if (jobs.length === 0) return;
   const { default: puppeteer } = await import("puppeteer");
   const profile = mkdtempSync(join(tmpdir(), "engagement-report-chromium-"));
@@ -104,6 +117,7 @@ export async function printPdfs(jobs: readonly PdfJob[], chromium: string): Prom
           '<div style="font-size:8px;width:100%;text-align:center;color:#333;">Page <span class="pageNumber"></span> of <span class="totalPages"></span></div>',
         margin: { top: "18mm", bottom: "16mm", left: "14mm", right: "14mm" },
       });
+      if (fixedTime) writeFileSync(job.path, stampPdfDates(readFileSync(job.path), fixedTime));
     }
   } finally {
     await browser.close();

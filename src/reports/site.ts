@@ -226,13 +226,13 @@ async function checkInPages(ctx: Ctx): Promise<void> {
         });
         await studentPage(ctx, load, id, list);
       } else if (nearLine.length > 0) {
+        // Listed with the states near the line, without a page: a page is for a suggested check-in.
         near.push({
           id,
           name: displayName(ctx, id),
-          href: page,
-          items: nearLine.map((r) => `${label(ctx, r.construct)}: ${r.reason}`),
+          href: "",
+          items: nearLine.map((r) => label(ctx, r.construct)),
         });
-        await studentPage(ctx, load, id, list);
       } else if (list.length > 0 && list.every((r) => r.status === "too-little-data")) {
         little.push({ name: displayName(ctx, id), detail: list[0]?.reason ?? "" });
       }
