@@ -5,6 +5,7 @@
  * pseudonym. The key comes from an environment variable or a file named in the settings, and is
  * never written anywhere. 12 hex digits (48 bits) make a clash between two of a district's students
  * vanishingly unlikely (about 1 in 10⁵ for 100,000 students); a clash is checked and refused.
+ * Session ids are replaced too ("q-" and 16 hex digits), since they often embed the student id.
  */
 import { createHmac } from "node:crypto";
 import { readFileSync } from "node:fs";
@@ -75,7 +76,21 @@ export function pseudonymise(
     }
     return p;
   };
-  const summaries = input.summaries.map((s) => ({ ...s, studentId: of(s.studentId) }));
+  // Session ids are often built from student ids (as in the demo), so they are replaced as well.
+  const sessions = new Map<string, string>();
+  const session = (id: string): string => {
+    let p = sessions.get(id);
+    if (p === undefined) {
+      p = `q-${createHmac("sha256", key).update(`session\u0000${id}`, "utf8").digest("hex").slice(0, 16)}`;
+      sessions.set(id, p);
+    }
+    return p;
+  };
+  const summaries = input.summaries.map((s) => ({
+    ...s,
+    studentId: of(s.studentId),
+    sessionId: session(s.sessionId),
+  }));
   let roster: Roster | null = null;
   if (input.roster) {
     const entries = new Map<string, RosterEntry>();
