@@ -20,6 +20,7 @@ export const DEFAULT_SETTINGS: Settings = {
   evidence: { minMinutes: 30, minSessions: 3, minDays: 2, minStudents: 10 },
   suppressionSize: 10,
   flags: { studentRatio: 1.3, groupRatio: 1.25, unitQ: 0.05 },
+  allStudentPages: false,
   replicates: 1000,
   pseudonymise: { keyEnv: null, keyFile: null },
   buildTime: null,
@@ -52,6 +53,8 @@ export const DEFAULT_REASONS: Readonly<Record<string, string>> = {
     "1.25 times comparable groups on the same content, for the whole plausible range: a class is many students, so its range is narrow and a quarter more is already a pattern worth planning support around. In our simulations no class was marked in districts where nothing was planted. Our choice, not a published standard.",
   "flags.unitQ":
     "0.05: Benjamini and Hochberg's (1995) false-discovery rate, so that among units marked for review about 1 in 20 at most is expected to be a chance finding.",
+  allStudentPages:
+    "Off: pages and the caseload PDF hold the students with a suggested check-in, so that a counselor's attention goes where the evidence is. Turn on to print a page for every student with data.",
   replicates:
     "1000 resamples of students: the usual number for percentile intervals at 95% (Efron and Tibshirani 1993, section 13.3); more changes the limits only in the third digit.",
   "pseudonymise.keyEnv": "Off: identifiers are shown as given unless a key is supplied.",

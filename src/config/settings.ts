@@ -18,6 +18,7 @@ export interface SettingsInput {
   evidence?: { min_minutes?: number; min_sessions?: number; min_days?: number; min_students?: number };
   suppression_size?: number;
   flags?: { student_ratio?: number; group_ratio?: number; unit_q?: number };
+  all_student_pages?: boolean;
   replicates?: number;
   pseudonymise?: { key_env?: string | null; key_file?: string | null };
   build_time?: string | null;
@@ -71,6 +72,7 @@ export function settingsFromInput(input: SettingsInput, where: string | Locator 
       groupRatio: input.flags?.group_ratio ?? d.flags.groupRatio,
       unitQ: input.flags?.unit_q ?? d.flags.unitQ,
     },
+    allStudentPages: input.all_student_pages ?? d.allStudentPages,
     replicates: input.replicates ?? d.replicates,
     pseudonymise: {
       keyEnv: input.pseudonymise?.key_env ?? d.pseudonymise.keyEnv,
@@ -107,6 +109,7 @@ export function settingsAsUsed(s: Settings): Record<string, unknown> {
     },
     suppression_size: s.suppressionSize,
     flags: { student_ratio: s.flags.studentRatio, group_ratio: s.flags.groupRatio, unit_q: s.flags.unitQ },
+    all_student_pages: s.allStudentPages,
     replicates: s.replicates,
     pseudonymise: { key_env: s.pseudonymise.keyEnv, key_file: s.pseudonymise.keyFile },
     build_time: s.buildTime,

@@ -57,6 +57,8 @@ export interface Settings {
     /** `review` when a unit's content effect has a Benjamini–Hochberg q-value below this. */
     readonly unitQ: number;
   };
+  /** Every student of a caseload gets a page and goes into the caseload's PDF, not only suggested check-ins. */
+  readonly allStudentPages: boolean;
   /** Resamples of students for the content effects' intervals. */
   readonly replicates: number;
   readonly pseudonymise: { readonly keyEnv: string | null; readonly keyFile: string | null };

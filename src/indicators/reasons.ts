@@ -22,6 +22,11 @@ export function percentText(x: number): string {
   return `${Math.round(p)}%`;
 }
 
+/** A run length read aloud: seconds under two minutes, else whole minutes. */
+export function duration(seconds: number): string {
+  return seconds < 120 ? plural(Math.round(seconds), "second") : plural(Math.round(seconds / 60), "minute");
+}
+
 export function lower(label: string): string {
   return label.length > 0 ? label[0]!.toLowerCase() + label.slice(1) : label;
 }
@@ -60,8 +65,8 @@ export const reasons = {
 
   usual: "This is in the usual range.",
 
-  sustained: (perHour: number, peerPerHour: number, minutes: number): string =>
-    `Long runs of ${minutes} minutes or more: ${perHour.toFixed(1)} an hour; others on the same units: ${peerPerHour.toFixed(1)} an hour.`,
+  sustained: (perHour: number, peerPerHour: number, seconds: number): string =>
+    `Long runs of ${duration(seconds)} or more: ${perHour.toFixed(1)} an hour; others on the same units: ${peerPerHour.toFixed(1)} an hour.`,
 
   relative:
     "Relative mode: the detector card has no check figures. So no share of time is shown, and the ratio shows less than the real gap.",

@@ -133,7 +133,7 @@ function oneStudent(
   if (share) text += ` That is ${reasons.share(share)}.`;
   text += ` ${flagged ? reasons.flagged(ctx.direction, line) : nearLine ? reasons.nearLine(ctx.direction) : reasons.usual}`;
   if (student.episodes > 0 || expectedEpisodes > 0.05 * hours) {
-    text += ` ${reasons.sustained(student.episodes / hours, expectedEpisodes / hours, Math.round((construct.sustainedMinWindows * card.windowSeconds) / 60))}`;
+    text += ` ${reasons.sustained(student.episodes / hours, expectedEpisodes / hours, construct.sustainedMinWindows * card.windowSeconds)}`;
   }
   if (ctx.correction.mode === "relative") text += ` ${reasons.relative}`;
   return {

@@ -225,7 +225,12 @@ async function checkInPages(ctx: Ctx): Promise<void> {
           items: checkIns.map((r) => `${label(ctx, r.construct)}: ${r.reason}`),
         });
         await studentPage(ctx, load, id, list);
-      } else if (nearLine.length > 0) {
+        continue;
+      }
+      if (ctx.input.inputs.settings.allStudentPages && list.some((r) => r.status !== "too-little-data")) {
+        await studentPage(ctx, load, id, list);
+      }
+      if (nearLine.length > 0) {
         // Listed with the states near the line, without a page: a page is for a suggested check-in.
         near.push({
           id,
