@@ -23,6 +23,7 @@ import { createChartRenderer } from "../reports/charts.js";
 import { findChromium, printPdfs } from "../reports/pdf.js";
 import { buildSite } from "../reports/site.js";
 import { pdfJobs, writeSite } from "../reports/write.js";
+import { sqlCommand } from "../sql/sql-command.js";
 import { sessionsCsv } from "../summaries/sessions-csv.js";
 import { VERSION } from "../version.js";
 import { demoModeFrom } from "./demo-mode.js";
@@ -71,6 +72,16 @@ const COMMANDS: Record<string, { summary: string; options: OptionSpec[] }> = {
       { name: "no-pdf", help: "skip the PDFs (HTML and data only; no browser needed)" },
     ],
   },
+  sql: {
+    summary:
+      "print the SQL query that turns a windows table into the sessions file, for an engine of your own",
+    options: [
+      { name: "dialect", value: "NAME", help: "duckdb, postgres or spark, required" },
+      { name: "card", value: "FILE", help: "detector card (YAML), required" },
+      { name: "table", value: "NAME", help: "table with the windows file's columns (default: windows)" },
+      { name: "with-activity", help: "keep activity_id (the table has that column)" },
+    ],
+  },
   demo: {
     summary: "generate the invented demo district and build it",
     options: [
@@ -78,6 +89,7 @@ const COMMANDS: Record<string, { summary: string; options: OptionSpec[] }> = {
       { name: "students", value: "N", help: "students, 50 to 100000 (default 300)" },
       { name: "seed", value: "S", help: "random seed (default 1)" },
       { name: "null", help: "plant nothing (every student alike)" },
+      { name: "no-pdf", help: "skip the PDFs (HTML and data only; no browser needed)" },
       { name: "settings", value: "FILE", help: "settings (YAML); fix build_time for repeatable output" },
     ],
   },
@@ -167,7 +179,14 @@ async function build(paths: InputPaths, out: string, effects: Effects, options: 
     writeChunks(data("groups.csv"), groupsCsv(indicators.groups));
     writeChunks(data("trends.csv"), trendsCsv(indicators.trends));
     writeSite(tmp, pages);
-    if (chromium) await printPdfs(pdfJobs(tmp, pages, inputs.settings.title), chromium);
+    if (chromium) {
+      const fixed = inputs.settings.buildTime ? new Date(inputs.settings.buildTime) : undefined;
+      await printPdfs(
+        pdfJobs(tmp, pages, inputs.settings.title, inputs.settings.allStudentPages),
+        chromium,
+        fixed,
+      );
+    }
     // Last: the manifest lists every file written before it.
     writeChunks(
       join(tmp, "manifest.json"),
@@ -230,6 +249,8 @@ export async function run(argv: string[], effects: Effects): Promise<number> {
       pdf: values["no-pdf"] !== true,
       command: "build",
     });
+  } else if (command === "sql") {
+    effects.out(sqlCommand(values));
   } else {
     const out = (values.out as string | undefined) ?? "demo-report";
     const students = values.students === undefined ? 300 : Number(values.students);

@@ -9,7 +9,8 @@
  *
  * Runs: for each construct, the windows with an estimate in time order; a run is a maximal stretch
  * of above-threshold windows each starting within 1.5 window lengths of the previous one's start
- * (DATA-CONTRACT.md). A window without an estimate for the construct leaves a gap and so ends a run.
+ * (DATA-CONTRACT.md), between windows with an estimate for the construct: a window without one is
+ * skipped, and it ends a run only through the time gap it leaves (more than 1.5 window lengths).
  * When a sitting spans several units (or classes, schools, activities), each run is credited to the
  * part in which it started.
  */

@@ -31,7 +31,17 @@ describe("sample-output", () => {
     const dir = join(mkdtempSync(join(tmpdir(), "er-golden-")), "out");
     const r = spawnSync(
       process.execPath,
-      [join(ROOT, "dist", "cli", "main.js"), "demo", "--out", dir, "--students", "200", "--settings", join(ROOT, "tests", "fixtures", "sample-settings.yaml"), "--no-pdf"],
+      [
+        join(ROOT, "dist", "cli", "main.js"),
+        "demo",
+        "--out",
+        dir,
+        "--students",
+        "200",
+        "--settings",
+        join(ROOT, "tests", "fixtures", "sample-settings.yaml"),
+        "--no-pdf",
+      ],
       { encoding: "utf8" },
     );
     expect(r.status, r.stderr).toBe(0);
@@ -40,7 +50,10 @@ describe("sample-output", () => {
     expect(built, `files differ; new build left in ${dir}`).toEqual(list(golden));
     for (const f of built) {
       const same = readFileSync(join(dir, f)).equals(readFileSync(join(golden, f)));
-      expect(same, `${f} differs from sample-output; new build left in ${dir} (run npm run sample to accept)`).toBe(true);
+      expect(
+        same,
+        `${f} differs from sample-output; new build left in ${dir} (run npm run sample to accept)`,
+      ).toBe(true);
     }
     rmSync(dir, { recursive: true, force: true });
   }, 120_000);
