@@ -1,8 +1,7 @@
 /** The optional roster: who a student is to the reader (name, school, grade, counselor, setting). */
 import { basename } from "node:path";
 import type { Settings } from "../config/types.js";
-import { msg } from "../messages.js";
-import { findField } from "./csv-records.js";
+import { rejectConflict } from "./conflict.js";
 import { readCsvTable } from "./csv-table.js";
 import { location, RowAccount } from "./quality.js";
 
@@ -84,12 +83,13 @@ export function readRoster(path: string, settings: Settings): Roster {
       // Strict mode stops here, at the earliest of the rows, in the first column where they differ.
       if (settings.strict) {
         const name = ENTRY_COLUMNS.find((n) => seen.entry[n[1]] !== entry[n[1]])?.[0] ?? "student_id";
-        const place = findField(path, seen.line, header.index.get(name) ?? idColumn);
-        account.reject("conflict", {
-          at: location(file, place?.line ?? seen.line, place?.column),
+        rejectConflict(account, {
+          path,
+          file,
+          line: seen.line,
+          otherLines: seen.lines,
           column: name,
-          ...(place ? { value: place.text } : {}),
-          detail: msg.conflictWith(seen.line, [seen.line, ...seen.lines]),
+          index: header.index.get(name) ?? idColumn,
         });
       }
     },

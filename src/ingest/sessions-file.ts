@@ -7,7 +7,7 @@ import { basename } from "node:path";
 import type { Card, Settings } from "../config/types.js";
 import { msg, type RejectReason } from "../messages.js";
 import { compareSummaries, type SessionSummary } from "../summaries/types.js";
-import { findField } from "./csv-records.js";
+import { rejectConflict } from "./conflict.js";
 import { readCsvTable } from "./csv-table.js";
 import { location, RowAccount } from "./quality.js";
 import { validCalendarDate } from "./timestamp.js";
@@ -171,12 +171,13 @@ export function readSessionsFile(path: string, card: Card, settings: Settings): 
       // Strict mode stops here, at the earliest of the rows, in the first column where they differ.
       if (settings.strict) {
         const name = VALUE_COLUMNS.find((n) => seen.row[n[1]] !== summary[n[1]])?.[0] ?? "student_id";
-        const place = findField(path, seen.line, col(name));
-        account.reject("conflict", {
-          at: location(file, place?.line ?? seen.line, place?.column),
+        rejectConflict(account, {
+          path,
+          file,
+          line: seen.line,
+          otherLines: seen.lines,
           column: name,
-          ...(place ? { value: place.text } : {}),
-          detail: msg.conflictWith(seen.line, [seen.line, ...seen.lines]),
+          index: col(name),
         });
       }
     },

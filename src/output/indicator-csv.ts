@@ -21,6 +21,24 @@ export function probabilityCell(value: number | null): string {
   return Number(value.toPrecision(4)).toString();
 }
 
+/** Rows joined into pieces of about 1 MB, so that a large table is written without one huge string. */
+export function* chunkedCsv<T>(
+  columns: readonly string[],
+  rows: Iterable<T>,
+  cells: (row: T) => string[],
+): Generator<string> {
+  yield csvLine(columns);
+  let chunk = "";
+  for (const r of rows) {
+    chunk += csvLine(cells(r));
+    if (chunk.length > 1 << 20) {
+      yield chunk;
+      chunk = "";
+    }
+  }
+  if (chunk.length > 0) yield chunk;
+}
+
 function estimateCells(e: Estimate | null, digits = 4): string[] {
   return e ? [fixedCell(e.value, digits), fixedCell(e.low, digits), fixedCell(e.high, digits)] : ["", "", ""];
 }
@@ -43,29 +61,20 @@ export const STUDENT_COLUMNS = [
   "reason",
 ] as const;
 
-export function* studentsCsv(rows: readonly StudentIndicator[]): Generator<string> {
-  yield csvLine([...STUDENT_COLUMNS]);
-  let chunk = "";
-  for (const r of rows) {
-    chunk += csvLine([
-      textCell(r.studentId),
-      textCell(r.construct),
-      r.status,
-      String(r.windows),
-      String(r.sessions),
-      String(r.days),
-      ...estimateCells(r.share),
-      fixedCell(r.peerShare),
-      ...estimateCells(r.ratio, 3),
-      fixedCell(r.sustainedPerHour, 3),
-      textCell(r.reason),
-    ]);
-    if (chunk.length > 1 << 20) {
-      yield chunk;
-      chunk = "";
-    }
-  }
-  if (chunk.length > 0) yield chunk;
+export function studentsCsv(rows: readonly StudentIndicator[]): Generator<string> {
+  return chunkedCsv(STUDENT_COLUMNS, rows, (r) => [
+    textCell(r.studentId),
+    textCell(r.construct),
+    r.status,
+    String(r.windows),
+    String(r.sessions),
+    String(r.days),
+    ...estimateCells(r.share),
+    fixedCell(r.peerShare),
+    ...estimateCells(r.ratio, 3),
+    fixedCell(r.sustainedPerHour, 3),
+    textCell(r.reason),
+  ]);
 }
 
 export const UNIT_COLUMNS = [
@@ -159,24 +168,15 @@ export const TREND_COLUMNS = [
   "share_high",
 ] as const;
 
-export function* trendsCsv(rows: readonly TrendRow[]): Generator<string> {
-  yield csvLine([...TREND_COLUMNS]);
-  let chunk = "";
-  for (const r of rows) {
-    chunk += csvLine([
-      r.level,
-      textCell(r.id),
-      textCell(r.construct),
-      r.week,
-      r.withheld ? "suppressed" : "shown",
-      r.withheld ? "" : String(r.windows),
-      r.withheld ? "" : String(r.sessions),
-      ...estimateCells(r.share),
-    ]);
-    if (chunk.length > 1 << 20) {
-      yield chunk;
-      chunk = "";
-    }
-  }
-  if (chunk.length > 0) yield chunk;
+export function trendsCsv(rows: readonly TrendRow[]): Generator<string> {
+  return chunkedCsv(TREND_COLUMNS, rows, (r) => [
+    r.level,
+    textCell(r.id),
+    textCell(r.construct),
+    r.week,
+    r.withheld ? "suppressed" : "shown",
+    r.withheld ? "" : String(r.windows),
+    r.withheld ? "" : String(r.sessions),
+    ...estimateCells(r.share),
+  ]);
 }
