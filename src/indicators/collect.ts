@@ -46,6 +46,8 @@ export interface ConstructData {
   /** Totals per unit over all students: windows, signal, sustained episodes. */
   readonly units: Map<string, Cell & { episodes: number; classes: Set<string> }>;
   readonly classSchool: Map<string, string>;
+  /** Student ids in sorted order (the order of every per-student output and resample). */
+  readonly order: readonly string[];
 }
 
 export function activityKey(unitId: string, activityId: string): string {
@@ -172,7 +174,7 @@ export function collectConstruct(
     total.classes.add(row.classId);
     if (!classSchool.has(row.classId)) classSchool.set(row.classId, row.schoolId);
   }
-  return { construct, students, units, classSchool };
+  return { construct, students, units, classSchool, order: [...students.keys()].sort() };
 }
 
 /** The key of the largest entry of a map of cells (ties: the first in sorted key order). */

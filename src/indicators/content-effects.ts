@@ -17,13 +17,14 @@ import type { Estimate, UnitIndicator } from "./types.js";
  * elsewhere or mostly here count less. Students are the resampling unit: the standard error is the
  * spread of the weighted mean over `replicates` resamples of students with replacement (seeded;
  * Efron and Tibshirani 1993, ch. 6), and above BOOTSTRAP_LIMIT students its large-sample equal, the
- * cluster-robust variance K/(K − 1)·Σw²(d − ē)²/(Σw)². The uncertainty of μ₁ − μ₀ adds
+ * cluster-robust variance K/(K − 1)·Σw²(d − ē)²/(Σw)² (with hundreds of clusters the two agree closely,
+ * and the resampling would cost replicates × students for every unit and activity). The uncertainty of μ₁ − μ₀ adds
  * effect²·(v₀ + v₁)/(μ₁ − μ₀)² (μ₀ itself cancels in a difference). Interval: effect ± z·SE; p-value:
  * two-sided normal on effect/SE; q-values by Benjamini–Hochberg (1995) across every unit × construct
  * compared (activities form their own family); the value for display is shrunk toward the
  * construct's mean effect by empirical Bayes (Morris 1983) across units.
  */
-export const BOOTSTRAP_LIMIT = 5000;
+export const BOOTSTRAP_LIMIT = 500;
 
 interface Pair {
   readonly d: number;
@@ -103,7 +104,7 @@ function rawEffect(
   const pairs: Pair[] = [];
   let windows = 0;
   let signal = 0;
-  for (const id of [...ctx.data.students.keys()].sort()) {
+  for (const id of ctx.data.order) {
     const student = ctx.data.students.get(id) as StudentData;
     const h = here(student);
     if (!h || h.n === 0) continue;
@@ -132,7 +133,11 @@ function rawEffect(
   const p = se > 0 ? 2 * normalCdf(-Math.abs(effect) / se) : effect === 0 ? 1 : 0;
   // Consistency across schools: each school with enough students gives its own weighted effect.
   const bySchool = new Map<string, Pair[]>();
-  for (const x of pairs) bySchool.set(x.school, [...(bySchool.get(x.school) ?? []), x]);
+  for (const x of pairs) {
+    const list = bySchool.get(x.school);
+    if (list) list.push(x);
+    else bySchool.set(x.school, [x]);
+  }
   let compared = 0;
   let agreeing = 0;
   for (const list of bySchool.values()) {
@@ -182,7 +187,11 @@ export function finishEffects(raw: readonly RawEffect[], z: number): UnitIndicat
   }
   const shrunk = new Map<RawEffect, number>();
   const byConstruct = new Map<string, RawEffect[]>();
-  for (const r of tested) byConstruct.set(r.construct, [...(byConstruct.get(r.construct) ?? []), r]);
+  for (const r of tested) {
+    const list = byConstruct.get(r.construct);
+    if (list) list.push(r);
+    else byConstruct.set(r.construct, [r]);
+  }
   for (const list of byConstruct.values()) {
     const usable = list.filter((r) => (r.se as number) > 0);
     if (usable.length < 2) {

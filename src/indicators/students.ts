@@ -21,7 +21,7 @@ export function studentIndicators(ctx: ConstructContext): StudentIndicator[] {
     totals,
   );
   const out: StudentIndicator[] = [];
-  for (const id of [...data.students.keys()].sort()) {
+  for (const id of data.order) {
     const student = data.students.get(id) as StudentData;
     out.push(oneStudent(ctx, student, unitVariance));
   }

@@ -42,7 +42,9 @@ export function suppressionFor(groups: readonly GroupSize[], size: number): Supp
     const byParent = new Map<string, GroupSize[]>();
     for (const g of groups) {
       if (g.level !== childLevel) continue;
-      byParent.set(g.parentId, [...(byParent.get(g.parentId) ?? []), g]);
+      const list = byParent.get(g.parentId);
+      if (list) list.push(g);
+      else byParent.set(g.parentId, [g]);
     }
     return { parentLevel, childLevel, byParent };
   };

@@ -11,7 +11,13 @@ import { fileURLToPath } from "node:url";
 import { Eta } from "eta";
 import type { Audience, ConstructCard } from "../config/types.js";
 import { percentText, ratioText } from "../indicators/reasons.js";
-import type { Indicators, StudentIndicator } from "../indicators/types.js";
+import type {
+  GroupIndicator,
+  Indicators,
+  StudentIndicator,
+  TrendRow,
+  UnitIndicator,
+} from "../indicators/types.js";
 import type { LoadedInputs } from "../pipeline/inputs.js";
 import { hanleyMcNeilStandardError } from "../stats/hanley-mcneil-standard-error.js";
 import type { Chart, ChartRenderer, IntervalRow, Marker } from "./charts.js";
@@ -77,7 +83,7 @@ export async function buildSite(input: SiteInput, charts: ChartRenderer): Promis
     const html = eta.render("layout", { page: f, css: trusted(css), body });
     pages.push({ path, audience, title: f.title, html, ...extra });
   };
-  const ctx: Ctx = { input, facts, charts, page };
+  const ctx: Ctx = { input, facts, charts, page, index: lookups(input) };
   indexPage(ctx);
   if (facts.audiences.includes("check-ins")) await checkInPages(ctx);
   if (facts.audiences.includes("content")) await contentPage(ctx);
@@ -90,6 +96,7 @@ interface Ctx {
   readonly input: SiteInput;
   readonly facts: SiteFacts;
   readonly charts: ChartRenderer;
+  readonly index: Lookups;
   page(
     path: string,
     audience: SitePage["audience"],
@@ -98,6 +105,51 @@ interface Ctx {
     model: object,
     extra?: Partial<SitePage>,
   ): void;
+}
+
+/**
+ * Lookups built once, so that a student page costs the same in a district of 100 students as in one
+ * of 100,000 (no scan of every summary, trend or group per page).
+ */
+interface Lookups {
+  /** student → unit → windows, over the first construct of the card with data. */
+  readonly windowsByUnit: ReadonlyMap<string, ReadonlyMap<string, number>>;
+  /** `construct\u0000student` → the student's weekly trend rows. */
+  readonly studentTrends: ReadonlyMap<string, readonly TrendRow[]>;
+  /** `construct\u0000unit` → unit row; `construct\u0000class` → class row. */
+  readonly units: ReadonlyMap<string, UnitIndicator>;
+  readonly classes: ReadonlyMap<string, GroupIndicator>;
+}
+
+const key2 = (a: string, b: string) => `${a}\u0000${b}`;
+
+function lookups(input: SiteInput): Lookups {
+  const first = input.inputs.card.constructs.find((c) =>
+    input.inputs.summaries.some((s) => s.construct === c.key),
+  )?.key;
+  const windowsByUnit = new Map<string, Map<string, number>>();
+  for (const s of input.inputs.summaries) {
+    if (s.construct !== first) continue;
+    let m = windowsByUnit.get(s.studentId);
+    if (!m) {
+      m = new Map();
+      windowsByUnit.set(s.studentId, m);
+    }
+    m.set(s.unitId, (m.get(s.unitId) ?? 0) + s.windows);
+  }
+  const studentTrends = new Map<string, TrendRow[]>();
+  for (const t of input.indicators.trends) {
+    if (t.level !== "student" || !t.share) continue;
+    const k = key2(t.construct, t.id);
+    const list = studentTrends.get(k);
+    if (list) list.push(t);
+    else studentTrends.set(k, [t]);
+  }
+  const units = new Map(input.indicators.units.map((u) => [key2(u.construct, u.unitId), u]));
+  const classes = new Map(
+    input.indicators.groups.filter((g) => g.level === "class").map((g) => [key2(g.construct, g.groupId), g]),
+  );
+  return { windowsByUnit, studentTrends, units, classes };
 }
 
 function cards(ctx: Ctx): readonly ConstructCard[] {
@@ -167,7 +219,9 @@ function caseloads(ctx: Ctx, studentIds: readonly string[]): Caseload[] {
   const by = new Map<string, string[]>();
   for (const id of studentIds) {
     const c = roster?.entries.get(id)?.counselor || "No counselor named";
-    by.set(c, [...(by.get(c) ?? []), id]);
+    const list = by.get(c);
+    if (list) list.push(id);
+    else by.set(c, [id]);
   }
   return [...by.keys()]
     .sort()
@@ -188,7 +242,11 @@ function marker(row: StudentIndicator): Marker {
 async function checkInPages(ctx: Ctx): Promise<void> {
   const rows = ctx.input.indicators.students;
   const byStudent = new Map<string, StudentIndicator[]>();
-  for (const r of rows) byStudent.set(r.studentId, [...(byStudent.get(r.studentId) ?? []), r]);
+  for (const r of rows) {
+    const list = byStudent.get(r.studentId);
+    if (list) list.push(r);
+    else byStudent.set(r.studentId, [r]);
+  }
   const ids = [...byStudent.keys()].sort();
   const loads = caseloads(ctx, ids);
   const top = frame(ctx.facts, {
@@ -308,9 +366,12 @@ async function studentPage(
   const flagged = list.filter((r) => r.status === "check-in" || r.nearLine);
   const trends: Chart[] = [];
   for (const r of flagged.slice(0, 3)) {
-    const points = indicators.trends
-      .filter((t) => t.level === "student" && t.id === id && t.construct === r.construct && t.share)
-      .map((t) => ({ week: t.week, value: t.share!.value, low: t.share!.low, high: t.share!.high }));
+    const points = (ctx.index.studentTrends.get(key2(r.construct, id)) ?? []).map((t) => ({
+      week: t.week,
+      value: t.share!.value,
+      low: t.share!.low,
+      high: t.share!.high,
+    }));
     if (points.length === 0) continue;
     trends.push(
       await ctx.charts.trend({
@@ -389,17 +450,14 @@ function cardOf(ctx: Ctx, key: string): ConstructCard {
 }
 
 function unitContext(ctx: Ctx, id: string, flagged: readonly StudentIndicator[]): Table {
-  const minutesByUnit = new Map<string, number>();
   const seconds = ctx.input.inputs.card.windowSeconds;
-  const first = flagged[0]?.construct;
-  for (const s of ctx.input.inputs.summaries) {
-    if (s.studentId !== id || s.construct !== first) continue;
-    minutesByUnit.set(s.unitId, (minutesByUnit.get(s.unitId) ?? 0) + (s.windows * seconds) / 60);
-  }
+  const minutesByUnit = new Map<string, number>();
+  for (const [unitId, windows] of ctx.index.windowsByUnit.get(id) ?? [])
+    minutesByUnit.set(unitId, (windows * seconds) / 60);
   const rows: string[][] = [];
   for (const unitId of [...minutesByUnit.keys()].sort()) {
     const notes = flagged.map((r) => {
-      const u = ctx.input.indicators.units.find((x) => x.unitId === unitId && x.construct === r.construct);
+      const u = ctx.index.units.get(key2(r.construct, unitId));
       return u?.status === "review" ? `${label(ctx, r.construct)}: many students showed more here` : "";
     });
     rows.push([
@@ -418,9 +476,7 @@ function unitContext(ctx: Ctx, id: string, flagged: readonly StudentIndicator[])
 }
 
 function classNote(ctx: Ctx, r: StudentIndicator): string {
-  const g = ctx.input.indicators.groups.find(
-    (x) => x.level === "class" && x.groupId === r.classId && x.construct === r.construct,
-  );
+  const g = ctx.index.classes.get(key2(r.construct, r.classId));
   const what = label(ctx, r.construct);
   if (!g || g.status === "suppressed")
     return `${what}: the class figure is withheld (small class), so there is no class context.`;
