@@ -340,7 +340,7 @@ async function studentPage(
   id: string,
   list: readonly StudentIndicator[],
 ): Promise<void> {
-  const { indicators, inputs } = ctx.input;
+  const { inputs } = ctx.input;
   const name = displayName(ctx, id);
   const chartId = `p-${studentSlug(id)}`;
   const shown = list.filter((r) => r.status !== "too-little-data" && r.ratio !== null);
