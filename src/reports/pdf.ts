@@ -88,6 +88,22 @@ export function stampPdfDates(pdf: Buffer, when: Date): Buffer {
   return Buffer.from(text, "latin1");
 }
 
+/** Tabs printing at once. */
+export const PRINTING_TABS = 2;
+
+const PDF_OPTIONS = {
+  format: "Letter",
+  printBackground: true,
+  tagged: true,
+  outline: true,
+  displayHeaderFooter: true,
+  headerTemplate:
+    '<div style="font-size:8px;width:100%;text-align:center;color:#333;">For low-stakes support only. Not for grades, discipline, placement or judging teachers.</div>',
+  footerTemplate:
+    '<div style="font-size:8px;width:100%;text-align:center;color:#333;">Page <span class="pageNumber"></span> of <span class="totalPages"></span></div>',
+  margin: { top: "18mm", bottom: "16mm", left: "14mm", right: "14mm" },
+} as const;
+
 export async function printPdfs(jobs: readonly PdfJob[], chromium: string, fixedTime?: Date): Promise<void> {
   if (jobs.length === 0) return;
   const { default: puppeteer } = await import("puppeteer");
@@ -98,27 +114,23 @@ export async function printPdfs(jobs: readonly PdfJob[], chromium: string, fixed
     args: [...LAUNCH_ARGS, `--user-data-dir=${profile}`],
   });
   try {
-    const page = await browser.newPage();
-    let n = 0;
-    for (const job of jobs) {
-      const file = join(work, `bundle-${n++}.html`);
-      writeFileSync(file, bundle(job.title, job.pages));
-      await page.goto(pathToFileURL(file).href, { waitUntil: "load" });
-      await page.pdf({
-        path: job.path,
-        format: "Letter",
-        printBackground: true,
-        tagged: true,
-        outline: true,
-        displayHeaderFooter: true,
-        headerTemplate:
-          '<div style="font-size:8px;width:100%;text-align:center;color:#333;">For low-stakes support only. Not for grades, discipline, placement or judging teachers.</div>',
-        footerTemplate:
-          '<div style="font-size:8px;width:100%;text-align:center;color:#333;">Page <span class="pageNumber"></span> of <span class="totalPages"></span></div>',
-        margin: { top: "18mm", bottom: "16mm", left: "14mm", right: "14mm" },
-      });
-      if (fixedTime) writeFileSync(job.path, stampPdfDates(readFileSync(job.path), fixedTime));
-    }
+    // Two tabs print at once (the machine's two cores): jobs are taken from one queue, biggest first
+    // so that the last one to finish is a small one.
+    const queue = jobs
+      .map((job, i) => ({ job, i, size: job.pages.reduce((t, p) => t + p.length, 0) }))
+      .sort((a, b) => b.size - a.size || a.i - b.i);
+    const worker = async () => {
+      const page = await browser.newPage();
+      for (let next = queue.shift(); next; next = queue.shift()) {
+        const file = join(work, `bundle-${next.i}.html`);
+        writeFileSync(file, bundle(next.job.title, next.job.pages));
+        await page.goto(pathToFileURL(file).href, { waitUntil: "load" });
+        await page.pdf({ path: next.job.path, ...PDF_OPTIONS });
+        if (fixedTime) writeFileSync(next.job.path, stampPdfDates(readFileSync(next.job.path), fixedTime));
+      }
+      await page.close();
+    };
+    await Promise.all(Array.from({ length: Math.min(PRINTING_TABS, jobs.length) }, worker));
   } finally {
     await browser.close();
     rmSync(profile, { recursive: true, force: true });
