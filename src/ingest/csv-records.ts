@@ -53,6 +53,15 @@ export interface RecordProblem {
 }
 
 export interface RecordSink {
+  /**
+   * Optional fast path: offered each non-blank physical line (bytes start..end of `buf`, without
+   * its line ending) before it is split. Returning true means the sink has taken the line as a
+   * complete record; it may do so only for a line that holds no double quote and no byte above
+   * 127, whose fields are then exactly its comma-separated parts. Returning false sends the line
+   * down the ordinary path (`record` or `problem`), so a sink takes only the rows it can read
+   * cheaply and leaves every irregular one, and its message, to the ordinary path.
+   */
+  line?(buf: Buffer, start: number, end: number, line: number): boolean;
   record(view: RecordView): void;
   problem(problem: RecordProblem): void;
   /** A line with nothing on it (after removing a CR). */
@@ -442,6 +451,11 @@ function readRecords(read: ReadInto, sink: RecordSink, options: ReadOptions): vo
         detail: `line longer than ${maxRecordBytes} bytes`,
         value: buf.toString("latin1", pos, pos + 40),
       });
+      pos = lineEnd + 1;
+      line++;
+      continue;
+    }
+    if (sink.line?.(buf, pos, contentEnd, line)) {
       pos = lineEnd + 1;
       line++;
       continue;

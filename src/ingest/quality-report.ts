@@ -103,14 +103,20 @@ export function buildQuality(q: QualityInput): Quality {
   const units = new Set<string>();
   const days = new Set<string>();
   const windowsBy = new Map<string, number>();
+  // Summaries mostly come sorted, several to a session: a value that repeats the previous row's
+  // adds nothing new to its set, so only changes are added.
+  let last: SessionSummary | null = null;
   for (const s of q.summaries) {
-    students.add(s.studentId);
-    sessions.add(`${s.studentId}\u0000${s.sessionId}`);
-    classes.add(s.classId);
-    schools.add(s.schoolId);
-    units.add(s.unitId);
-    days.add(s.day);
+    if (last === null || s.studentId !== last.studentId || s.sessionId !== last.sessionId) {
+      students.add(s.studentId);
+      sessions.add(`${s.studentId}\u0000${s.sessionId}`);
+    }
+    if (last === null || s.day !== last.day) days.add(s.day);
+    if (last === null || s.classId !== last.classId) classes.add(s.classId);
+    if (last === null || s.schoolId !== last.schoolId) schools.add(s.schoolId);
+    if (last === null || s.unitId !== last.unitId) units.add(s.unitId);
     windowsBy.set(s.construct, (windowsBy.get(s.construct) ?? 0) + s.windows);
+    last = s;
   }
   const sortedDays = [...days].sort();
   const rosterIds = q.roster ? [...q.roster.entries.keys()] : [];

@@ -113,3 +113,72 @@ export function parseTimestampText(text: string): number | TimestampProblem {
   const buf = Buffer.from(text, "utf8");
   return parseTimestamp(buf, 0, buf.length);
 }
+
+/**
+ * Reads many window starts in a row, as parseTimestamp does, faster when a value repeats the
+ * previous one's date and UTC offset byte for byte (the windows of one sitting): then only the clock
+ * (HH:MM:SS) is read, and added to the previous value's midnight. Both are whole numbers of
+ * milliseconds below 2^53, so the sum is exactly the double parseTimestamp computes.
+ */
+export class TimestampReader {
+  /** UTC offset of the last value read, in minutes. */
+  offsetMinutes = 0;
+  private readonly prev = Buffer.alloc(64);
+  /** Length of the remembered value; 0 when none is remembered. */
+  private prevLen = 0;
+  /** The remembered value's local midnight as an instant, in ms. */
+  private midnight = 0;
+  private prevOffset = 0;
+
+  /** Length of the remembered value (0 when none): where a repeat of its form would end. */
+  get length(): number {
+    return this.prevLen;
+  }
+
+  /**
+   * The instant of buf[start..end), when it has the remembered value's length, date and offset and
+   * a valid clock; NaN otherwise (then use `read`).
+   */
+  sameDay(buf: Uint8Array, start: number, end: number): number {
+    const n = this.prevLen;
+    if (n === 0 || end - start !== n) return Number.NaN;
+    const prev = this.prev;
+    for (let i = 0; i < 11; i++) if (buf[start + i] !== prev[i]) return Number.NaN;
+    for (let i = 19; i < n; i++) if (buf[start + i] !== prev[i]) return Number.NaN;
+    if (buf[start + 13] !== 58 || buf[start + 16] !== 58) return Number.NaN;
+    const h = digits(buf, start + 11, 2);
+    const mi = digits(buf, start + 14, 2);
+    const s = digits(buf, start + 17, 2);
+    if (h < 0 || mi < 0 || s < 0 || h > 23 || mi > 59 || s > 60) return Number.NaN;
+    this.offsetMinutes = this.prevOffset;
+    return this.midnight + (h * 60 + mi) * 60000 + s * 1000;
+  }
+
+  /** parseTimestamp, remembering a plain value (no spaces, no fraction) for `sameDay`. */
+  read(buf: Uint8Array, start: number, end: number): number | TimestampProblem {
+    const out = { offsetMinutes: 0 };
+    const time = parseTimestamp(buf, start, end, out);
+    if (typeof time === "string") return time;
+    this.offsetMinutes = out.offsetMinutes;
+    const n = end - start;
+    const z = buf[start + 19];
+    const plain =
+      n >= 20 &&
+      n <= this.prev.length &&
+      buf[start] !== 32 &&
+      buf[end - 1] !== 32 &&
+      (z === 90 || z === 122 || z === 43 || z === 45);
+    if (!plain) {
+      this.prevLen = 0;
+      return time;
+    }
+    for (let i = 0; i < n; i++) this.prev[i] = buf[start + i]!;
+    this.prevLen = n;
+    this.prevOffset = out.offsetMinutes;
+    const clock =
+      (digits(buf, start + 11, 2) * 60 + digits(buf, start + 14, 2)) * 60000 +
+      digits(buf, start + 17, 2) * 1000;
+    this.midnight = time - clock;
+    return time;
+  }
+}

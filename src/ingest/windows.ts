@@ -2,23 +2,36 @@
  * The windows file → session summaries, streamed.
  *
  * Pass 1 reads every row once, validates it, and feeds each sitting's accumulator while the
- * sitting's rows arrive in time order (the usual layout: sorted by student, session, time). A
- * sitting whose rows arrive out of order, or with a repeated window_start, is marked for replay
- * and its pass-1 sums are discarded.
+ * sitting's rows arrive in time order (the usual layouts: sorted by student, session and time, or
+ * by time across sittings). Most rows take a fast path that reads the fields straight from the
+ * bytes of the line: ids are compared in place with the previous row's, and decoded (and looked
+ * up, by their bytes, in ByteKeyTable) only when they change; numbers and times are parsed from
+ * bytes. Any row the fast path cannot read plainly (quotes, non-ASCII bytes, spaces, exponents, a
+ * value to reject) goes the ordinary way, through the CSV reader's fields and the checks below,
+ * which give every rejection its message.
  *
- * Replay (the "second pass" choice for unsorted input): the file is read again, and only the rows
- * of marked sittings are kept, compactly (time, part, line and one number per construct), in
- * batches that fit a fixed memory budget; each sitting is then sorted by time, its duplicates and
- * conflicts resolved without regard to the order they came in, and reduced exactly as in pass 1.
- * Sorted input never replays, so its memory does not grow with the number of windows; shuffled
- * input costs one more read per batch and stays within the budget.
+ * Sittings are closed (reduced to their summaries, their accumulators freed) when more than
+ * OPEN_SITTINGS are open, least recently seen first, so memory does not grow with the number of
+ * sittings being read.
+ *
+ * Unsorted input: a sitting whose row arrives out of time order, with a repeated window_start, or
+ * after the sitting was closed, is marked for replay; its pass-1 sums are discarded, and from then
+ * on its rows are set aside on disk in buckets of sittings (replay-spill.ts says why buckets, and
+ * why in that order). The rows it had before the mark are read again in a second pass that stops at
+ * the last such line (for a shuffled file, early: a sitting is marked within its first few rows).
+ * Then each bucket is read back, each sitting's rows sorted by time, duplicates and conflicts
+ * resolved without regard to the order they came in, and reduced exactly as in pass 1. Sorted input
+ * never replays and writes nothing to disk.
  */
-import { basename } from "node:path";
+import { mkdtempSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { basename, join } from "node:path";
 import type { Card, Settings } from "../config/types.js";
 import { InputError } from "../errors.js";
 import { msg, type RejectReason } from "../messages.js";
 import { ConstructPlan, type PartIds, SessionAccumulator } from "../summaries/session-accumulator.js";
 import { compareSummaries, type SessionSummary } from "../summaries/types.js";
+import { ByteKeyTable } from "./byte-key-table.js";
 import {
   findField,
   type RecordProblem,
@@ -28,12 +41,21 @@ import {
 } from "./csv-records.js";
 import { EMPTY, parseNumber } from "./number.js";
 import { location, RowAccount } from "./quality.js";
-import { parseTimestamp } from "./timestamp.js";
+import { SpillBuckets } from "./replay-spill.js";
+import { parseTimestamp, TimestampReader } from "./timestamp.js";
 
 const REQUIRED = ["student_id", "class_id", "unit_id", "session_id", "window_start"] as const;
 const OPTIONAL = ["school_id", "activity_id"] as const;
-/** Memory for replaying out-of-order sittings, per batch. */
-const REPLAY_BUDGET_BYTES = 128 * 1024 * 1024;
+/** Memory for the rows of replayed sittings held at once (a bucket, or part of one). */
+const REPLAY_BUDGET_BYTES = 64 * 1024 * 1024;
+/**
+ * Sittings accumulating at once. A file sorted by time interleaves the sittings under way at the
+ * same moment (a few thousand in a large district); beyond this many, the least recently seen
+ * sitting is closed, and replayed if it comes back. About 1 KB each.
+ */
+const OPEN_SITTINGS = 16384;
+/** 2^12 sittings per replay bucket. */
+const BUCKET_SHIFT = 12;
 
 export interface ColumnAccount {
   readonly constructs: readonly string[];
@@ -55,18 +77,36 @@ export interface WindowsResult {
   readonly replayedSittings: number;
 }
 
+/** What a column holds, for the fast path. */
+const ROLE_OTHER = 0;
+const ROLE_ID = 1;
+const ROLE_VALUE = 2;
+const ROLE_TIME = 3;
+
+/** Id slots: student, session, class, school, unit, activity. */
+const ID_NAMES = ["student_id", "session_id", "class_id", "school_id", "unit_id", "activity_id"] as const;
+const SCHOOL = 3;
+const ACTIVITY = 5;
+/** Bit masks over the id slots. */
+const SITTING_SLOTS = 0b000011;
+const PART_SLOTS = 0b111100;
+const ALL_SLOTS = 0b111111;
+
 interface Layout {
   readonly fieldCount: number;
-  /** student, session, class, school, unit, activity (school and activity -1 when absent). */
+  /** Column of each id slot (school and activity -1 when absent). */
   readonly ids: Int32Array;
+  readonly sittingCols: Int32Array;
+  readonly partCols: Int32Array;
   readonly time: number;
   /** Column of each construct used, in card order. */
   readonly constructCols: Int32Array;
+  /** Per column: ROLE_*, and its id slot or construct index. */
+  readonly roles: Int8Array;
+  readonly roleArgs: Int32Array;
   readonly names: readonly string[];
   readonly columns: ColumnAccount;
 }
-
-const ID_NAMES = ["student_id", "session_id", "class_id", "school_id", "unit_id", "activity_id"] as const;
 
 function layoutOf(
   file: string,
@@ -92,13 +132,31 @@ function layoutOf(
   }
   const known = new Set<string>([...REQUIRED, ...OPTIONAL, ...card.constructs.map((c) => c.key)]);
   const constructs = card.constructs.filter((_, i) => present[i]).map((c) => c.key);
+  const ids = Int32Array.from(ID_NAMES.map((n) => index.get(n) ?? -1));
+  const constructCols = Int32Array.from(constructs.map((k) => index.get(k)!));
+  const roles = new Int8Array(names.length).fill(ROLE_OTHER);
+  const roleArgs = new Int32Array(names.length);
+  ids.forEach((col, slot) => {
+    if (col < 0) return;
+    roles[col] = ROLE_ID;
+    roleArgs[col] = slot;
+  });
+  constructCols.forEach((col, k) => {
+    roles[col] = ROLE_VALUE;
+    roleArgs[col] = k;
+  });
+  roles[index.get("window_start")!] = ROLE_TIME;
   return {
     present,
     layout: {
       fieldCount: names.length,
-      ids: Int32Array.from(ID_NAMES.map((n) => index.get(n) ?? -1)),
+      ids,
+      sittingCols: ids.slice(0, 2),
+      partCols: ids.slice(2, 6),
       time: index.get("window_start")!,
-      constructCols: Int32Array.from(constructs.map((k) => index.get(k)!)),
+      constructCols,
+      roles,
+      roleArgs,
       names,
       columns: {
         constructs,
@@ -111,79 +169,48 @@ function layoutOf(
   };
 }
 
-/** Rows of one sitting kept for replay. */
-class ReplayBuffer {
-  n = 0;
-  times = new Float64Array(16);
-  offsets = new Int16Array(16);
-  parts = new Int32Array(16);
-  lines = new Int32Array(16);
-  values: Float64Array;
-  constructor(private readonly k: number) {
-    this.values = new Float64Array(16 * k);
-  }
-  push(time: number, offset: number, part: number, line: number, values: Float64Array): void {
-    if (this.n === this.times.length) {
-      const grow = <T extends Float64Array | Int32Array | Int16Array>(a: T, size: number): T => {
-        const b = new (a.constructor as new (n: number) => T)(size);
-        b.set(a);
-        return b;
-      };
-      const size = this.n * 2;
-      this.times = grow(this.times, size);
-      this.offsets = grow(this.offsets, size);
-      this.parts = grow(this.parts, size);
-      this.lines = grow(this.lines, size);
-      this.values = grow(this.values, size * this.k);
-    }
-    this.times[this.n] = time;
-    this.offsets[this.n] = offset;
-    this.parts[this.n] = part;
-    this.lines[this.n] = line;
-    this.values.set(values, this.n * this.k);
-    this.n++;
-  }
-}
-
-interface Sitting {
-  readonly acc: SessionAccumulator;
-  rows: number;
-  replay: boolean;
-  batch: number;
-  buffer: ReplayBuffer | null;
-}
-
-/** Compares field bytes with the previous row's, so sorted input does not decode ids on every row. */
+/** The previous row's id bytes, so sorted input does not decode or look up ids on every row. */
 class PreviousIds {
-  private readonly bytes = Buffer.alloc(1 << 16);
-  private readonly start = new Int32Array(6);
-  private readonly len = new Int32Array(6).fill(-1);
+  readonly bytes = Buffer.alloc(1 << 16);
+  readonly start = new Int32Array(6);
+  readonly len = new Int32Array(6).fill(-1);
   valid = false;
+  /**
+   * The ids are plain (ASCII, no comma or quote), so a plain line that repeats them byte for byte
+   * holds them as the same fields; ids decoded from a quoted record may hold a comma.
+   */
+  plain = false;
 
-  same(view: RecordView, slot: number, col: number): boolean {
+  same(buf: Uint8Array, starts: Int32Array, ends: Int32Array, slot: number, col: number): boolean {
     if (col < 0) return true;
-    const s = view.starts[col]!;
-    const n = view.ends[col]! - s;
+    const s = starts[col]!;
+    const n = ends[col]! - s;
     if (n !== this.len[slot]) return false;
-    const buf = view.buf;
     const at = this.start[slot]!;
     for (let i = 0; i < n; i++) if (buf[s + i] !== this.bytes[at + i]) return false;
     return true;
   }
 
-  remember(view: RecordView, ids: Int32Array): void {
+  remember(buf: Buffer, starts: Int32Array, ends: Int32Array, ids: Int32Array): void {
     let at = 0;
     this.valid = true;
+    this.plain = true;
     for (let slot = 0; slot < 6; slot++) {
       const col = ids[slot]!;
       if (col < 0) continue;
-      const s = view.starts[col]!;
-      const n = view.ends[col]! - s;
+      const s = starts[col]!;
+      const n = ends[col]! - s;
       if (at + n > this.bytes.length) {
         this.valid = false;
         return;
       }
-      view.buf.copy(this.bytes, at, s, s + n);
+      // Ids are short: a loop costs less than Buffer.copy's call.
+      const bytes = this.bytes;
+      for (let i = 0; i < n; i++) {
+        const c = buf[s + i]!;
+        if (c === 34 || c === 44 || c > 127) this.plain = false;
+        bytes[at + i] = c;
+      }
       this.start[slot] = at;
       this.len[slot] = n;
       at += n;
@@ -191,51 +218,346 @@ class PreviousIds {
   }
 }
 
+/** Where a sitting is: accumulating, closed (summaries kept), or marked for replay. */
+const OPEN = 0;
+const CLOSED = 1;
+const REPLAY = 2;
+
+const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
+
+/** Thrown to end the second pass once it has passed the last line it needs. */
+const STOP = new Error("stop");
+
 export function summarizeWindowsFile(
   path: string,
   card: Card,
   settings: Settings,
   onBytes?: (bytes: Buffer) => void,
 ): WindowsResult {
-  const file = basename(path);
-  const account = new RowAccount(file, settings);
-  const sittings = new Map<string, Sitting>();
-  const maxBytes = settings.maxFieldChars * 4;
-  let layout: Layout | null = null;
-  let plan: ConstructPlan | null = null;
-  let values = new Float64Array(0);
-  let sawHeader = false;
-  const timeOut = { offsetMinutes: 0 };
-  const prev = new PreviousIds();
-  let current: Sitting | null = null;
-  let currentPart = 0;
-  /** 0 in pass 1; in replay, the batch being collected. */
-  let pass = 0;
+  const ingest = new WindowsIngest(path, card, settings);
+  try {
+    ingest.read(onBytes); // pass 1
+    ingest.closeAll();
+    ingest.readAgain(); // the rows of marked sittings from before their mark
+    ingest.replay();
+    return ingest.result();
+  } finally {
+    ingest.spill?.remove();
+  }
+}
 
-  const reject = (
+class WindowsIngest {
+  readonly file: string;
+  readonly account: RowAccount;
+  private readonly maxBytes: number;
+  private readonly maxRecordBytes: number;
+  private layout: Layout | null = null;
+  private plan: ConstructPlan | null = null;
+  private values = new Float64Array(0);
+  private readonly timeOut = { offsetMinutes: 0 };
+  private sawHeader = false;
+  /** 0 in pass 1, 1 when reading again. */
+  private pass = 0;
+  /** In the second pass: the line at which to stop. */
+  private stopLine = 0;
+  /** Field ranges of the row read by the fast path. */
+  private starts = new Int32Array(0);
+  private ends = new Int32Array(0);
+  private readonly prev = new PreviousIds();
+  private readonly times = new TimestampReader();
+
+  // Sittings by number (order of first appearance) and parts (global numbers).
+  private readonly sittingKeys = new ByteKeyTable(2);
+  private readonly partKeys = new ByteKeyTable(4);
+  private readonly partIds: PartIds[] = [];
+  private readonly students: string[] = [];
+  private readonly sessions: string[] = [];
+  private state = new Int8Array(1024);
+  /** Rows that passed validation, per sitting. */
+  private rows = new Int32Array(1024);
+  /** Per sitting marked for replay: the line of the mark when rows before it must be read again, else 0. */
+  private markLine = new Int32Array(1024);
+  private partCount = new Int32Array(1024);
+  /** Per sitting: the part of its last row (-1 before any). */
+  private lastPart = new Int32Array(1024).fill(-1);
+  private withoutEstimate = new Int32Array(1024);
+  private readonly done: (SessionSummary[] | undefined)[] = [];
+  private readonly open = new Map<number, SessionAccumulator>();
+  /** Per sitting: when it was last entered (a count of entries), to close the least recent. */
+  private lastSeen = new Float64Array(1024);
+  private entries = 0;
+  /** Accumulators of closed sittings, to serve new ones. */
+  private readonly pool: SessionAccumulator[] = [];
+  private replayed = 0;
+  private lastMark = 0;
+  spill: SpillBuckets | null = null;
+
+  /** The current row's sitting, its accumulator (open sittings, pass 1), part, and part in the sitting. */
+  private current = -1;
+  private currentAcc: SessionAccumulator | null = null;
+  private currentPart = -1;
+  private localPart = -1;
+
+  constructor(
+    private readonly path: string,
+    private readonly card: Card,
+    private readonly settings: Settings,
+  ) {
+    this.file = basename(path);
+    this.account = new RowAccount(this.file, settings);
+    this.maxBytes = settings.maxFieldChars * 4;
+    this.maxRecordBytes = Math.max(1 << 20, this.maxBytes * 64);
+  }
+
+  // ---------------------------------------------------------------------------------------------
+  // Reading.
+
+  read(onBytes?: (bytes: Buffer) => void): void {
+    this.sawHeader = false;
+    this.current = -1;
+    this.currentAcc = null;
+    this.currentPart = -1;
+    this.prev.valid = false;
+    try {
+      readRecordsFromFile(this.path, this.sink(), {
+        maxRecordBytes: this.maxRecordBytes,
+        ...(this.pass === 0 && onBytes ? { onBytes } : {}),
+      });
+    } catch (error) {
+      if (error === STOP) return;
+      const code = (error as { code?: string }).code;
+      if (code !== undefined && typeof code === "string" && code.startsWith("E")) {
+        throw new InputError(msg.cannotRead(this.path, "windows file", error));
+      }
+      throw error;
+    }
+    if (this.pass > 0) return;
+    if (!this.sawHeader) throw new InputError(msg.emptyFile(this.path, "windows file"));
+    if (this.account.rowsRead === 0) throw new InputError(msg.headerOnly(this.path, "windows file"));
+  }
+
+  private sink(): RecordSink {
+    return {
+      line: (buf, start, end, line) => {
+        if (!this.sawHeader) return false;
+        if (this.pass > 0) {
+          if (line >= this.stopLine) throw STOP;
+          if (this.notNeeded(buf, start, end, line)) return true;
+        }
+        return this.fastRow(buf, start, end, line);
+      },
+      record: (view) => {
+        if (!this.sawHeader) {
+          this.sawHeader = true;
+          if (this.pass > 0) return;
+          this.header(view);
+          return;
+        }
+        if (this.pass > 0 && view.line >= this.stopLine) throw STOP;
+        this.row(view);
+      },
+      problem: (problem: RecordProblem) => {
+        if (!this.sawHeader)
+          throw new InputError(
+            `${location(this.file, problem.line, problem.column)}: the header row: ${problem.detail}.`,
+          );
+        if (this.pass > 0) return;
+        this.account.rowsRead++;
+        const name = problem.field === undefined ? undefined : this.layout!.names[problem.field];
+        // The UTF-8 detail only repeats the reason's text; the others say which case it is.
+        const detail = problem.kind === "bad-utf8" ? undefined : problem.detail;
+        this.reject(problem.kind, problem.line, problem.column, name, problem.value, detail);
+      },
+      blank: () => {
+        if (this.pass === 0) this.account.blankLines++;
+      },
+    };
+  }
+
+  private header(view: RecordView): void {
+    const header = Array.from({ length: view.count }, (_, i) => view.text(i));
+    const built = layoutOf(this.file, header, this.card);
+    this.layout = built.layout;
+    this.plan = new ConstructPlan(this.card, built.present);
+    this.values = new Float64Array(this.plan.keys.length);
+    this.starts = new Int32Array(built.layout.fieldCount);
+    this.ends = new Int32Array(built.layout.fieldCount);
+  }
+
+  private reject(
     reason: RejectReason,
     line: number,
     column: number | undefined,
     name?: string,
     value?: string,
     detail?: string,
-  ) => {
-    if (pass > 0) return; // counted in pass 1
-    account.reject(reason, {
-      at: location(file, line, column),
+  ): void {
+    if (this.pass > 0) return; // counted in pass 1
+    this.account.reject(reason, {
+      at: location(this.file, line, column),
       ...(name === undefined ? {} : { column: name }),
       ...(value === undefined ? {} : { value: value.length > 80 ? `${value.slice(0, 77)}...` : value }),
       ...(detail === undefined ? {} : { detail }),
     });
-  };
+  }
 
-  const onRow = (view: RecordView, lay: Layout, pl: ConstructPlan): void => {
-    if (pass === 0) account.rowsRead++;
+  /**
+   * The fast path: reads a plain line (see RecordSink.line) in one sweep over its bytes, and takes
+   * it when every field is as the ordinary path would accept it; returns false, having changed
+   * nothing but scratch space, for anything else.
+   */
+  private fastRow(buf: Buffer, start: number, end: number, line: number): boolean {
+    const lay = this.layout!;
+    const { roles, roleArgs, fieldCount } = lay;
+    const { starts, ends, values, prev } = this;
+    const prevBytes = prev.bytes;
+    const maxChars = this.settings.maxFieldChars;
+    /** Id slots that differ from the previous row's. */
+    let changed = prev.valid && prev.plain ? 0 : ALL_SLOTS;
+    let time = Number.NaN;
+    let p = start;
+    for (let col = 0; col < fieldCount; col++) {
+      if (p > end) return false; // fewer fields than the header
+      starts[col] = p;
+      const role = roles[col]!;
+      if (role === ROLE_VALUE) {
+        // A plain decimal, read as parseNumber reads it; anything else goes the ordinary way.
+        let m = 0;
+        let digits = 0;
+        let fraction = 0;
+        let dot = false;
+        let q = p;
+        for (; q < end; q++) {
+          const c = buf[q]!;
+          if (c >= 48 && c <= 57) {
+            m = m * 10 + (c - 48);
+            digits++;
+            if (dot) fraction++;
+          } else if (c === 46 && !dot) dot = true;
+          else break;
+        }
+        if (q < end && buf[q] !== 44) return false;
+        if (q === p) values[roleArgs[col]!] = Number.NaN;
+        else {
+          if (digits === 0 || digits > 15) return false;
+          const v = m / POW10[fraction]!;
+          if (v > 1) return false;
+          values[roleArgs[col]!] = v;
+        }
+        ends[col] = q;
+        p = q + 1;
+        continue;
+      }
+      if (role === ROLE_ID) {
+        const slot = roleArgs[col]!;
+        const bit = 1 << slot;
+        if ((changed & bit) === 0) {
+          // Compare with the previous row's bytes in place; they were plain when taken.
+          const n = prev.len[slot]!;
+          const at = prev.start[slot]!;
+          const q = p + n;
+          if (q <= end && (q === end || buf[q] === 44)) {
+            let i = 0;
+            while (i < n && buf[p + i] === prevBytes[at + i]) i++;
+            if (i === n) {
+              ends[col] = q;
+              p = q + 1;
+              continue;
+            }
+          }
+          changed |= bit;
+        }
+        let q = p;
+        while (q < end) {
+          const c = buf[q]!;
+          if (c === 44) break;
+          if (c === 34 || c > 127) return false;
+          q++;
+        }
+        const n = q - p;
+        if ((n === 0 && slot !== SCHOOL && slot !== ACTIVITY) || n > maxChars) return false;
+        ends[col] = q;
+        p = q + 1;
+        continue;
+      }
+      if (role === ROLE_TIME) {
+        // Most often the previous row's date and offset with another clock.
+        const reader = this.times;
+        let q = p + reader.length;
+        if (reader.length > 0 && q <= end && (q === end || buf[q] === 44)) time = reader.sameDay(buf, p, q);
+        if (Number.isNaN(time)) {
+          q = p;
+          while (q < end) {
+            const c = buf[q]!;
+            if (c === 44) break;
+            if (c === 34 || c > 127) return false;
+            q++;
+          }
+          const t = reader.read(buf, p, q);
+          if (typeof t === "string") return false;
+          time = t;
+        }
+        ends[col] = q;
+        p = q + 1;
+        continue;
+      }
+      // A column the ingest does not use.
+      let q = p;
+      while (q < end) {
+        const c = buf[q]!;
+        if (c === 44) break;
+        if (c === 34 || c > 127) return false;
+        q++;
+      }
+      ends[col] = q;
+      p = q + 1;
+    }
+    if (p !== end + 1) return false; // more fields than the header
+    if (this.pass === 0) this.account.rowsRead++;
+    this.take(buf, starts, ends, time, this.times.offsetMinutes, line, changed);
+    return true;
+  }
+
+  /**
+   * Second pass: whether a plain line can be passed over unread, because its sitting is not one
+   * whose earlier rows are wanted (or it has none, the row having been rejected). Reads only as far
+   * as the sitting's ids; anything unusual is left to the full reading.
+   */
+  private notNeeded(buf: Buffer, start: number, end: number, line: number): boolean {
+    const lay = this.layout!;
+    const { starts, ends } = this;
+    const student = lay.ids[0]!;
+    const session = lay.ids[1]!;
+    const last = Math.max(student, session);
+    let p = start;
+    for (let col = 0; col <= last; col++) {
+      if (p > end) return false;
+      let q = p;
+      while (q < end) {
+        const c = buf[q]!;
+        if (c === 44) break;
+        if (c === 34 || c > 127) return false;
+        q++;
+      }
+      starts[col] = p;
+      ends[col] = q;
+      p = q + 1;
+    }
+    const s = this.sittingKeys.find(buf, starts, ends, lay.sittingCols);
+    return s < 0 || this.state[s] !== REPLAY || line >= this.markLine[s]!;
+  }
+
+  /** The ordinary path: a record from the CSV reader, checked field by field. */
+  private row(view: RecordView): void {
+    const lay = this.layout!;
+    const settings = this.settings;
+    const values = this.values;
+    if (this.pass === 0) this.account.rowsRead++;
     if (view.count !== lay.fieldCount) {
       // Point at the first extra field, or just past the end of a row cut short.
       const at = Math.min(view.count, lay.fieldCount);
       const { value, detail } = msg.fieldCount(view.count, lay.names);
-      reject("wrong-field-count", view.lineOf(at), view.column(at), undefined, value, detail);
+      this.reject("wrong-field-count", view.lineOf(at), view.column(at), undefined, value, detail);
       return;
     }
     const ids = lay.ids;
@@ -243,18 +565,21 @@ export function summarizeWindowsFile(
       const col = ids[slot]!;
       if (col < 0) continue;
       const n = view.ends[col]! - view.starts[col]!;
-      if (n === 0 && slot !== 3 && slot !== 5) {
-        reject("empty-id", view.lineOf(col), view.column(col), lay.names[col]);
+      if (n === 0 && slot !== SCHOOL && slot !== ACTIVITY) {
+        this.reject("empty-id", view.lineOf(col), view.column(col), lay.names[col]);
         return;
       }
-      if (n > settings.maxFieldChars && (n > maxBytes || view.text(col).length > settings.maxFieldChars)) {
-        reject("long-field", view.lineOf(col), view.column(col), lay.names[col], view.text(col));
+      if (
+        n > settings.maxFieldChars &&
+        (n > this.maxBytes || view.text(col).length > settings.maxFieldChars)
+      ) {
+        this.reject("long-field", view.lineOf(col), view.column(col), lay.names[col], view.text(col));
         return;
       }
     }
-    const time = parseTimestamp(view.buf, view.starts[lay.time]!, view.ends[lay.time]!, timeOut);
+    const time = parseTimestamp(view.buf, view.starts[lay.time]!, view.ends[lay.time]!, this.timeOut);
     if (typeof time === "string") {
-      reject(time, view.lineOf(lay.time), view.column(lay.time), "window_start", view.text(lay.time));
+      this.reject(time, view.lineOf(lay.time), view.column(lay.time), "window_start", view.text(lay.time));
       return;
     }
     for (let k = 0; k < lay.constructCols.length; k++) {
@@ -265,215 +590,469 @@ export function summarizeWindowsFile(
         continue;
       }
       if (Number.isNaN(v)) {
-        reject("not-number", view.lineOf(col), view.column(col), lay.names[col], view.text(col));
+        this.reject("not-number", view.lineOf(col), view.column(col), lay.names[col], view.text(col));
         return;
       }
       if (v < 0 || v > 1) {
-        reject("out-of-range", view.lineOf(col), view.column(col), lay.names[col], view.text(col));
+        this.reject("out-of-range", view.lineOf(col), view.column(col), lay.names[col], view.text(col));
         return;
       }
       values[k] = v;
     }
-    // Which sitting and part: skip decoding when the ids repeat the previous row's.
-    const sameSitting =
-      prev.valid && current !== null && prev.same(view, 0, ids[0]!) && prev.same(view, 1, ids[1]!);
-    const samePart =
-      sameSitting &&
-      prev.same(view, 2, ids[2]!) &&
-      prev.same(view, 3, ids[3]!) &&
-      prev.same(view, 4, ids[4]!) &&
-      prev.same(view, 5, ids[5]!);
-    if (!sameSitting) {
-      const student = view.text(ids[0]!);
-      const session = view.text(ids[1]!);
-      const key = `${student}\u0000${session}`;
-      let sitting = sittings.get(key);
-      if (!sitting) {
-        if (pass > 0) throw new Error(`sitting ${key} appeared only in replay`);
-        sitting = {
-          acc: new SessionAccumulator(student, session, pl),
-          rows: 0,
-          replay: false,
-          batch: 0,
-          buffer: null,
-        };
-        sittings.set(key, sitting);
-      }
-      current = sitting;
-    }
-    const sitting = current!;
-    if (!samePart) {
-      const text = (slot: number): string => (ids[slot]! < 0 ? "" : view.text(ids[slot]!));
-      const part: PartIds = { classId: text(2), schoolId: text(3), unitId: text(4), activityId: text(5) };
-      currentPart = sitting.acc.partIndex(part);
-    }
-    if (!sameSitting || !samePart) prev.remember(view, ids);
-    if (pass === 0) {
-      sitting.rows++;
-      if (sitting.replay) return;
-      if (time <= sitting.acc.lastTime) {
-        sitting.replay = true;
-        return;
-      }
-      sitting.acc.add(time, timeOut.offsetMinutes, currentPart, values);
-    } else if (sitting.replay && sitting.batch === pass) {
-      sitting.buffer!.push(time, timeOut.offsetMinutes, currentPart, view.line, values);
-    }
-  };
+    let changed = 0;
+    if (!this.prev.valid) changed = ALL_SLOTS;
+    else
+      for (let slot = 0; slot < 6; slot++)
+        if (!this.prev.same(view.buf, view.starts, view.ends, slot, ids[slot]!)) changed |= 1 << slot;
+    this.take(view.buf, view.starts, view.ends, time, this.timeOut.offsetMinutes, view.line, changed);
+  }
 
-  const sink: RecordSink = {
-    record(view) {
-      if (!sawHeader) {
-        sawHeader = true;
-        if (pass > 0) return;
-        const header = Array.from({ length: view.count }, (_, i) => view.text(i));
-        const built = layoutOf(file, header, card);
-        layout = built.layout;
-        plan = new ConstructPlan(card, built.present);
-        values = new Float64Array(plan.keys.length);
-        return;
-      }
-      onRow(view, layout!, plan!);
-    },
-    problem(problem: RecordProblem) {
-      if (!sawHeader)
-        throw new InputError(
-          `${location(file, problem.line, problem.column)}: the header row: ${problem.detail}.`,
-        );
-      if (pass === 0) account.rowsRead++;
-      const name = problem.field === undefined ? undefined : layout!.names[problem.field];
-      // The UTF-8 detail only repeats the reason's text; the others say which case it is.
-      const detail = problem.kind === "bad-utf8" ? undefined : problem.detail;
-      reject(problem.kind, problem.line, problem.column, name, problem.value, detail);
-    },
-    blank() {
-      if (pass === 0) account.blankLines++;
-    },
-  };
+  // ---------------------------------------------------------------------------------------------
+  // A valid row: which sitting and part, then accumulate (pass 1) or set aside (second pass).
 
-  const maxRecordBytes = Math.max(1 << 20, maxBytes * 64);
-  const read = (): void => {
-    sawHeader = false;
-    current = null;
-    prev.valid = false;
-    try {
-      readRecordsFromFile(path, sink, {
-        maxRecordBytes,
-        ...(pass === 0 && onBytes ? { onBytes } : {}),
-      });
-    } catch (error) {
-      const code = (error as { code?: string }).code;
-      if (code !== undefined && typeof code === "string" && code.startsWith("E")) {
-        throw new InputError(msg.cannotRead(path, "windows file", error));
+  private take(
+    buf: Buffer,
+    starts: Int32Array,
+    ends: Int32Array,
+    time: number,
+    offset: number,
+    line: number,
+    changed: number,
+  ): void {
+    const lay = this.layout!;
+    if (this.current < 0 || (changed & SITTING_SLOTS) !== 0) this.enterSitting(buf, starts, ends);
+    if (this.currentPart < 0 || (changed & PART_SLOTS) !== 0) {
+      // Unsorted input changes ids on every row, but a sitting's rows mostly share one part: try
+      // the part of the sitting's previous row before looking the part up.
+      const last = this.lastPart[this.current]!;
+      let part =
+        last >= 0 && this.partKeys.matches(last, buf, starts, ends, lay.partCols)
+          ? last
+          : this.partKeys.find(buf, starts, ends, lay.partCols);
+      if (part < 0) {
+        part = this.partKeys.add(buf, starts, ends, lay.partCols);
+        this.partIds.push({
+          classId: this.partKeys.text(part, 0),
+          schoolId: this.partKeys.text(part, 1),
+          unitId: this.partKeys.text(part, 2),
+          activityId: this.partKeys.text(part, 3),
+        });
       }
-      throw error;
+      this.currentPart = part;
+      this.lastPart[this.current] = part;
+      this.localPart = -1;
     }
-  };
+    if (changed !== 0) this.prev.remember(buf, starts, ends, lay.ids);
+    const s = this.current;
+    if (this.pass > 0) {
+      if (this.state[s] === REPLAY && line < this.markLine[s]!) this.setAside(s, line, time, offset);
+      return;
+    }
+    this.rows[s]!++;
+    const acc = this.currentAcc;
+    if (acc === null) {
+      if (this.state[s] === CLOSED) this.mark(s, line);
+      this.setAside(s, line, time, offset);
+      return;
+    }
+    if (this.localPart < 0) this.localPart = acc.partIndex(this.currentPart, this.partIds[this.currentPart]!);
+    if (time <= acc.lastTime) {
+      this.mark(s, line);
+      this.setAside(s, line, time, offset);
+      return;
+    }
+    acc.add(time, offset, this.localPart, this.values);
+  }
 
-  read();
-  if (!sawHeader) throw new InputError(msg.emptyFile(path, "windows file"));
-  if (account.rowsRead === 0) throw new InputError(msg.headerOnly(path, "windows file"));
+  private enterSitting(buf: Buffer, starts: Int32Array, ends: Int32Array): void {
+    const cols = this.layout!.sittingCols;
+    let s = this.sittingKeys.find(buf, starts, ends, cols);
+    if (s < 0) {
+      if (this.pass > 0) throw new Error("a sitting appeared only when the file was read again");
+      s = this.sittingKeys.add(buf, starts, ends, cols);
+      this.newSitting(s);
+    }
+    this.current = s;
+    this.localPart = -1;
+    this.currentAcc = null;
+    if (this.pass > 0 || this.state[s] !== OPEN) return;
+    this.lastSeen[s] = ++this.entries;
+    let acc = this.open.get(s);
+    if (!acc) {
+      acc = this.pool.pop();
+      if (acc) acc.restart(this.students[s]!, this.sessions[s]!);
+      else acc = new SessionAccumulator(this.students[s]!, this.sessions[s]!, this.plan!);
+      this.open.set(s, acc);
+      if (this.open.size > OPEN_SITTINGS) this.closeLeastRecent(s);
+    }
+    this.currentAcc = acc;
+  }
+
+  /**
+   * Closes the less recently entered half of the open sittings (not `keep`): a sweep every
+   * OPEN_SITTINGS / 2 new sittings, cheaper than keeping them in order on every row.
+   */
+  private closeLeastRecent(keep: number): void {
+    const stamps = new Float64Array(this.open.size);
+    let i = 0;
+    for (const s of this.open.keys()) stamps[i++] = this.lastSeen[s]!;
+    stamps.sort();
+    const cut = stamps[stamps.length >> 1]!;
+    for (const s of [...this.open.keys()]) if (s !== keep && this.lastSeen[s]! <= cut) this.close(s);
+  }
+
+  private newSitting(s: number): void {
+    if (s === this.state.length) {
+      const size = s * 2;
+      this.state = growInt8(this.state, size);
+      this.rows = growInt32(this.rows, size);
+      this.markLine = growInt32(this.markLine, size);
+      this.partCount = growInt32(this.partCount, size);
+      this.withoutEstimate = growInt32(this.withoutEstimate, size);
+      const lastPart = new Int32Array(size).fill(-1);
+      lastPart.set(this.lastPart);
+      this.lastPart = lastPart;
+      const seen = new Float64Array(size);
+      seen.set(this.lastSeen);
+      this.lastSeen = seen;
+    }
+    this.students.push(this.sittingKeys.text(s, 0));
+    this.sessions.push(this.sittingKeys.text(s, 1));
+  }
+
+  /** Reduces an open sitting to its summaries and frees its accumulator. */
+  private close(s: number): void {
+    const acc = this.open.get(s)!;
+    this.open.delete(s);
+    this.state[s] = CLOSED;
+    this.keep(s, acc);
+    this.pool.push(acc);
+  }
+
+  /** Closes every open sitting (at the end of pass 1). */
+  closeAll(): void {
+    for (const s of [...this.open.keys()]) this.close(s);
+    this.currentAcc = null;
+  }
+
+  private keep(s: number, acc: SessionAccumulator): void {
+    this.done[s] = acc.finish();
+    this.partCount[s] = acc.parts.length;
+    this.withoutEstimate[s] = acc.rowsWithoutEstimate;
+  }
+
+  /** Marks sitting s for replay at this line: its pass-1 sums are dropped. */
+  private mark(s: number, line: number): void {
+    this.state[s] = REPLAY;
+    this.replayed++;
+    if (this.rows[s]! > 1) {
+      // Rows before this one were read but not set aside: read them again later.
+      this.markLine[s] = line;
+      this.lastMark = Math.max(this.lastMark, line);
+    }
+    const acc = this.open.get(s);
+    if (acc) {
+      this.open.delete(s);
+      this.pool.push(acc);
+    }
+    this.done[s] = undefined;
+    if (s === this.current) this.currentAcc = null;
+    if (this.spill === null) {
+      const dir = mkdtempSync(join(tmpdir(), "engagement-report-replay-"));
+      this.spill = new SpillBuckets(dir, this.plan!.keys.length, BUCKET_SHIFT);
+    }
+  }
+
+  private setAside(s: number, line: number, time: number, offset: number): void {
+    this.spill!.write(s, this.currentPart, line, time, offset, this.values);
+  }
+
+  /** Second pass, when needed: the rows of marked sittings from before their mark. */
+  readAgain(): void {
+    if (this.lastMark === 0) return;
+    this.pass = 1;
+    this.stopLine = this.lastMark;
+    this.read();
+  }
+
+  // ---------------------------------------------------------------------------------------------
+  // Replay.
+
+  replay(): void {
+    const spill = this.spill;
+    if (spill === null) return;
+    spill.flushAll();
+    const k = this.plan!.keys.length;
+    const stopOnConflict = this.settings.strict ? this.conflictStop() : null;
+    const budgetRows = Math.max(1, Math.floor(REPLAY_BUDGET_BYTES / (8 + 4 + 4 + 4 + 8 * k)));
+    const rows = new ReplayRows(k);
+    const n = this.sittingKeys.size;
+    for (let b = 0; b < spill.bucketCount; b++) {
+      const lo = b << spill.shift;
+      const hi = Math.min(n, lo + (1 << spill.shift));
+      // Sittings lo..hi in groups whose rows fit the budget (a group holds at least one sitting).
+      let from = lo;
+      while (from < hi) {
+        let to = from;
+        let total = 0;
+        while (to < hi && (to === from || total + this.replayRows(to) <= budgetRows)) {
+          total += this.replayRows(to);
+          to++;
+        }
+        this.replayGroup(b, from, to, total, rows, stopOnConflict);
+        from = to;
+      }
+    }
+  }
+
+  private replayRows(s: number): number {
+    return this.state[s] === REPLAY ? this.rows[s]! : 0;
+  }
+
+  /** Reads the rows of sittings from..to out of bucket b, grouped by sitting, and replays each. */
+  private replayGroup(
+    b: number,
+    from: number,
+    to: number,
+    total: number,
+    rows: ReplayRows,
+    stopOnConflict: ConflictStop | null,
+  ): void {
+    if (total === 0) return;
+    rows.reserve(total);
+    const k = rows.k;
+    // Counting sort by sitting: next[s - from] is where sitting s's next row goes.
+    const next = new Int32Array(to - from + 1);
+    for (let s = from; s < to; s++) next[s - from + 1] = next[s - from]! + this.replayRows(s);
+    const begin = next.slice();
+    this.spill!.read(b, (chunk, ints, at) => {
+      const i = (at + 1 + k) * 2;
+      const s = ints[i]!;
+      if (s < from || s >= to) return;
+      const r = next[s - from]!++;
+      rows.times[r] = chunk[at]!;
+      for (let c = 0; c < k; c++) rows.values[r * k + c] = chunk[at + 1 + c]!;
+      rows.parts[r] = ints[i + 1]!;
+      rows.lines[r] = ints[i + 2]!;
+      rows.offsets[r] = ints[i + 3]!;
+    });
+    for (let s = from; s < to; s++) {
+      if (this.state[s] !== REPLAY) continue;
+      if (next[s - from] !== begin[s - from + 1])
+        throw new Error(`sitting ${s}: rows set aside and read back differ in number`);
+      this.replaySitting(s, rows, begin[s - from]!, begin[s - from + 1]!, stopOnConflict);
+    }
+  }
+
+  /** Sorts one sitting's rows by time, sets aside duplicates and conflicts, and reduces it in order. */
+  private replaySitting(
+    s: number,
+    b: ReplayRows,
+    from: number,
+    to: number,
+    stopOnConflict: ConflictStop | null,
+  ): void {
+    const k = b.k;
+    const acc = new SessionAccumulator(this.students[s]!, this.sessions[s]!, this.plan!);
+    // Parts in the order they first appear in the file, as pass 1 would have met them.
+    const firstLine = new Map<number, number>();
+    for (let r = from; r < to; r++) {
+      const seen = firstLine.get(b.parts[r]!);
+      if (seen === undefined || b.lines[r]! < seen) firstLine.set(b.parts[r]!, b.lines[r]!);
+    }
+    for (const [part] of [...firstLine].sort((x, y) => x[1] - y[1])) acc.partIndex(part, this.partIds[part]!);
+    for (let r = from; r < to; r++) b.local[r] = acc.partIndex(b.parts[r]!, this.partIds[b.parts[r]!]!);
+    const rowCompare = (i: number, j: number): number => {
+      if (b.local[i] !== b.local[j]) return b.local[i]! - b.local[j]!;
+      for (let c = 0; c < k; c++) {
+        const x = b.values[i * k + c]!;
+        const y = b.values[j * k + c]!;
+        if (x === y || (Number.isNaN(x) && Number.isNaN(y))) continue;
+        if (Number.isNaN(x)) return -1;
+        if (Number.isNaN(y)) return 1;
+        return x - y;
+      }
+      return b.offsets[i]! - b.offsets[j]!;
+    };
+    const order = timeOrder(b, from, to);
+    // Rows with the same window_start: by their content, then by line.
+    for (let i = 0; i < order.length; ) {
+      let j = i + 1;
+      while (j < order.length && b.times[order[j]!] === b.times[order[i]!]) j++;
+      if (j - i > 1) order.subarray(i, j).sort((x, y) => rowCompare(x, y) || b.lines[x]! - b.lines[y]!);
+      i = j;
+    }
+    const values = new Float64Array(k);
+    let i = 0;
+    while (i < order.length) {
+      let j = i + 1;
+      while (j < order.length && b.times[order[j]!] === b.times[order[i]!]) j++;
+      const first = order[i]!;
+      let identical = true;
+      for (let m = i + 1; m < j; m++) if (rowCompare(first, order[m]!) !== 0) identical = false;
+      if (!identical) {
+        const group = Array.from(order.subarray(i, j));
+        const lines = group.map((r) => b.lines[r]!);
+        stopOnConflict?.(acc, b, group, lines);
+        for (const line of lines)
+          this.account.reject("conflict", {
+            at: location(this.file, line),
+            value: msg.conflictWith(line, lines),
+          });
+      } else {
+        for (let m = i + 1; m < j; m++) {
+          const at = location(this.file, b.lines[order[m]!]!);
+          this.account.duplicate({ at, value: `same window as line ${b.lines[first]}` });
+        }
+        values.set(b.values.subarray(first * k, first * k + k));
+        acc.add(b.times[first]!, b.offsets[first]!, b.local[first]!, values);
+      }
+      i = j;
+    }
+    this.keep(s, acc);
+  }
 
   /**
    * Strict mode, rows that disagree: stop at the earliest of them, at a field where it differs from
    * another (read again from the file, as the replay keeps no columns).
    */
-  const stopOnConflict: ConflictStop | null = settings.strict
-    ? (s, b, rows, lines) => {
-        const lay = layout!;
-        const k = plan!.keys.length;
-        const byLine = [...rows].sort((i, j) => b.lines[i]! - b.lines[j]!);
-        const first = byLine[0]!;
-        // A group holds at least two rows that differ, so some row differs from the first.
-        let field = lay.time;
-        for (const r of byLine) {
-          const d = differingField(s, b, k, first, r);
-          if (d === null) continue;
-          if (d.kind === "part") field = lay.ids[d.slot]!;
-          else if (d.kind === "value") field = lay.constructCols[d.construct]!;
-          break;
-        }
-        const line = b.lines[first]!;
-        const place = findField(path, line, field, { maxRecordBytes });
-        account.reject("conflict", {
-          at: location(file, place?.line ?? line, place?.column),
-          column: lay.names[field]!,
-          ...(place ? { value: place.text } : {}),
-          detail: msg.conflictWith(line, lines),
-        });
+  private conflictStop(): ConflictStop {
+    return (acc, b, rows, lines) => {
+      const lay = this.layout!;
+      const byLine = [...rows].sort((i, j) => b.lines[i]! - b.lines[j]!);
+      const first = byLine[0]!;
+      // A group holds at least two rows that differ, so some row differs from the first.
+      let field = lay.time;
+      for (const r of byLine) {
+        const d = differingField(acc, b, first, r);
+        if (d === null) continue;
+        if (d.kind === "part") field = lay.ids[d.slot]!;
+        else if (d.kind === "value") field = lay.constructCols[d.construct]!;
+        break;
       }
-    : null;
-
-  const replayed = planReplay(sittings, plan!.keys.length);
-  for (let batch = 1; batch <= replayed.batches; batch++) {
-    pass = batch;
-    for (const s of sittings.values())
-      if (s.replay && s.batch === batch) s.buffer = new ReplayBuffer(plan!.keys.length);
-    read();
-    for (const s of sittings.values()) {
-      if (s.replay && s.batch === batch) {
-        replaySitting(s, plan!.keys.length, account, file, stopOnConflict);
-        s.buffer = null;
-      }
-    }
+      const line = b.lines[first]!;
+      const place = findField(this.path, line, field, { maxRecordBytes: this.maxRecordBytes });
+      this.account.reject("conflict", {
+        at: location(this.file, place?.line ?? line, place?.column),
+        column: lay.names[field]!,
+        ...(place ? { value: place.text } : {}),
+        detail: msg.conflictWith(line, lines),
+      });
+    };
   }
 
-  const summaries: SessionSummary[] = [];
-  let spanning = 0;
-  let rowsWithoutEstimate = 0;
-  const estimated = new Float64Array(plan!.keys.length);
-  const constructIndex = new Map(plan!.keys.map((key, i) => [key, i]));
-  for (const s of sittings.values()) {
-    const rows = s.acc.finish();
-    if (s.acc.parts.length > 1) spanning++;
-    rowsWithoutEstimate += s.acc.rowsWithoutEstimate;
-    for (const r of rows) {
-      summaries.push(r);
-      estimated[constructIndex.get(r.construct)!]! += r.windows;
+  // ---------------------------------------------------------------------------------------------
+  // The result.
+
+  result(): WindowsResult {
+    const plan = this.plan!;
+    const n = this.sittingKeys.size;
+    const constructIndex = new Map(plan.keys.map((key, i) => [key, i]));
+    // Sittings by student and session, then each sitting's rows in order: the same order as sorting
+    // every summary with compareSummaries (two sittings never share student and session), at the
+    // cost of sorting sittings only.
+    const byIds = Array.from({ length: n }, (_, s) => s);
+    const cmp = (a: string, b: string): number => (a < b ? -1 : a > b ? 1 : 0);
+    byIds.sort(
+      (a, b) => cmp(this.students[a]!, this.students[b]!) || cmp(this.sessions[a]!, this.sessions[b]!),
+    );
+    const order = compareSummaries(constructIndex);
+    const summaries: SessionSummary[] = [];
+    const estimated = new Float64Array(plan.keys.length);
+    let spanning = 0;
+    let rowsWithoutEstimate = 0;
+    for (const s of byIds) {
+      if (this.partCount[s]! > 1) spanning++;
+      rowsWithoutEstimate += this.withoutEstimate[s]!;
+      const rows = this.done[s] ?? [];
+      rows.sort(order);
+      for (const r of rows) {
+        summaries.push(r);
+        estimated[constructIndex.get(r.construct)!]! += r.windows;
+      }
     }
+    const lay = this.layout!;
+    return {
+      file: this.file,
+      summaries,
+      account: this.account,
+      columns: lay.columns,
+      rowsWithoutEstimate,
+      estimates: plan.keys.map((construct, k) => ({
+        construct,
+        windows: estimated[k]!,
+        missing: this.account.accepted - estimated[k]!,
+      })),
+      sittings: n,
+      sittingsSpanningParts: spanning,
+      replayedSittings: this.replayed,
+    };
   }
-  summaries.sort(compareSummaries(constructIndex));
-  const lay = layout as Layout | null;
-  return {
-    file,
-    summaries,
-    account,
-    columns: lay!.columns,
-    rowsWithoutEstimate,
-    estimates: plan!.keys.map((construct, k) => ({
-      construct,
-      windows: estimated[k]!,
-      missing: account.accepted - estimated[k]!,
-    })),
-    sittings: sittings.size,
-    sittingsSpanningParts: spanning,
-    replayedSittings: replayed.count,
-  };
 }
 
-function planReplay(sittings: Map<string, Sitting>, k: number): { batches: number; count: number } {
-  const bytesPerRow = 8 + 2 + 4 + 4 + 8 * k;
-  const rowsPerBatch = Math.max(1, Math.floor(REPLAY_BUDGET_BYTES / bytesPerRow));
-  let batch = 0;
-  let used = rowsPerBatch;
-  let count = 0;
-  for (const s of sittings.values()) {
-    if (!s.replay) continue;
-    count++;
-    if (used + s.rows > rowsPerBatch) {
-      batch++;
-      used = 0;
-    }
-    s.batch = batch;
-    used += s.rows;
+/**
+ * Rows from..to in order of time (rows with the same time in any order). When the times are whole
+ * milliseconds, each row's key is its time after the sitting's first, times 2^bits, plus its
+ * position, which a double holds exactly while below 2^53: the keys then sort natively, with no
+ * comparison function, which is most of the cost of replaying. Else (fractions of a millisecond,
+ * a span too long) a sort with a comparison.
+ */
+function timeOrder(b: ReplayRows, from: number, to: number): Int32Array {
+  const n = to - from;
+  const order = new Int32Array(n);
+  let min = Number.POSITIVE_INFINITY;
+  let max = Number.NEGATIVE_INFINITY;
+  let whole = true;
+  for (let r = from; r < to; r++) {
+    const t = b.times[r]!;
+    if (t < min) min = t;
+    if (t > max) max = t;
+    if (!Number.isInteger(t)) whole = false;
   }
-  return { batches: batch, count };
+  const scale = 2 ** (32 - Math.clz32(n));
+  if (whole && (max - min + 1) * scale <= 2 ** 53) {
+    const keys = new Float64Array(n);
+    for (let i = 0; i < n; i++) keys[i] = (b.times[from + i]! - min) * scale + i;
+    keys.sort();
+    for (let i = 0; i < n; i++) order[i] = from + (keys[i]! % scale);
+    return order;
+  }
+  for (let i = 0; i < n; i++) order[i] = from + i;
+  return order.sort((i, j) => b.times[i]! - b.times[j]! || i - j);
 }
 
-/** Stops the run on buffered rows of a sitting that share a window_start but disagree (strict mode). */
-type ConflictStop = (s: Sitting, b: ReplayBuffer, rows: readonly number[], lines: readonly number[]) => void;
+/** Rows of the sittings being replayed, grouped by sitting. */
+class ReplayRows {
+  times = new Float64Array(0);
+  offsets = new Int32Array(0);
+  /** Global part number, and the part's index in its sitting. */
+  parts = new Int32Array(0);
+  local = new Int32Array(0);
+  lines = new Int32Array(0);
+  values = new Float64Array(0);
 
-const PART_SLOTS = [
+  constructor(readonly k: number) {}
+
+  reserve(n: number): void {
+    if (this.times.length >= n) return;
+    this.times = new Float64Array(n);
+    this.offsets = new Int32Array(n);
+    this.parts = new Int32Array(n);
+    this.local = new Int32Array(n);
+    this.lines = new Int32Array(n);
+    this.values = new Float64Array(n * this.k);
+  }
+}
+
+/** Stops the run on rows of a sitting that share a window_start but disagree (strict mode). */
+type ConflictStop = (
+  acc: SessionAccumulator,
+  b: ReplayRows,
+  rows: readonly number[],
+  lines: readonly number[],
+) => void;
+
+const PART_FIELDS = [
   ["classId", 2],
   ["schoolId", 3],
   ["unitId", 4],
@@ -481,21 +1060,21 @@ const PART_SLOTS = [
 ] as const;
 
 /**
- * The first field in which buffered rows i and j of a sitting differ: an id of the part (its slot
- * in Layout.ids), a construct's value, or else the window_start's UTC offset (the same instant
+ * The first field in which rows i and j of a sitting differ: an id of the part (its slot in
+ * Layout.ids), a construct's value, or else the window_start's UTC offset (the same instant
  * written two ways); null when they agree.
  */
 function differingField(
-  s: Sitting,
-  b: ReplayBuffer,
-  k: number,
+  acc: SessionAccumulator,
+  b: ReplayRows,
   i: number,
   j: number,
 ): { kind: "part"; slot: number } | { kind: "value"; construct: number } | { kind: "time" } | null {
-  if (b.parts[i] !== b.parts[j]) {
-    const p = s.acc.parts[b.parts[i]!]!;
-    const q = s.acc.parts[b.parts[j]!]!;
-    for (const [key, slot] of PART_SLOTS) if (p[key] !== q[key]) return { kind: "part", slot };
+  const k = b.k;
+  if (b.local[i] !== b.local[j]) {
+    const p = acc.parts[b.local[i]!]!;
+    const q = acc.parts[b.local[j]!]!;
+    for (const [key, slot] of PART_FIELDS) if (p[key] !== q[key]) return { kind: "part", slot };
   }
   for (let c = 0; c < k; c++) {
     const x = b.values[i * k + c]!;
@@ -505,52 +1084,14 @@ function differingField(
   return b.offsets[i] === b.offsets[j] ? null : { kind: "time" };
 }
 
-/** Sorts one sitting's rows by time, sets aside duplicates and conflicts, and reduces it in order. */
-function replaySitting(
-  s: Sitting,
-  k: number,
-  account: RowAccount,
-  file: string,
-  stopOnConflict: ConflictStop | null,
-): void {
-  const b = s.buffer!;
-  const order = Array.from({ length: b.n }, (_, i) => i);
-  const rowCompare = (i: number, j: number): number => {
-    if (b.parts[i] !== b.parts[j]) return b.parts[i]! - b.parts[j]!;
-    for (let c = 0; c < k; c++) {
-      const x = b.values[i * k + c]!;
-      const y = b.values[j * k + c]!;
-      if (x === y || (Number.isNaN(x) && Number.isNaN(y))) continue;
-      if (Number.isNaN(x)) return -1;
-      if (Number.isNaN(y)) return 1;
-      return x - y;
-    }
-    return b.offsets[i]! - b.offsets[j]!;
-  };
-  order.sort((i, j) => b.times[i]! - b.times[j]! || rowCompare(i, j) || b.lines[i]! - b.lines[j]!);
-  s.acc.reset();
-  const values = new Float64Array(k);
-  let i = 0;
-  while (i < order.length) {
-    let j = i + 1;
-    while (j < order.length && b.times[order[j]!] === b.times[order[i]!]) j++;
-    const first = order[i]!;
-    let identical = true;
-    for (let m = i + 1; m < j; m++) if (rowCompare(first, order[m]!) !== 0) identical = false;
-    if (!identical) {
-      const rows = order.slice(i, j);
-      const lines = rows.map((r) => b.lines[r]!);
-      stopOnConflict?.(s, b, rows, lines);
-      for (const line of lines)
-        account.reject("conflict", { at: location(file, line), value: msg.conflictWith(line, lines) });
-    } else {
-      for (let m = i + 1; m < j; m++) {
-        const at = location(file, b.lines[order[m]!]!);
-        account.duplicate({ at, value: `same window as line ${b.lines[first]}` });
-      }
-      values.set(b.values.subarray(first * k, first * k + k));
-      s.acc.add(b.times[first]!, b.offsets[first]!, b.parts[first]!, values);
-    }
-    i = j;
-  }
+function growInt32(a: Int32Array, size: number): Int32Array<ArrayBuffer> {
+  const b = new Int32Array(size);
+  b.set(a);
+  return b;
+}
+
+function growInt8(a: Int8Array, size: number): Int8Array<ArrayBuffer> {
+  const b = new Int8Array(size);
+  b.set(a);
+  return b;
 }
