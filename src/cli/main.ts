@@ -232,6 +232,7 @@ export async function run(argv: string[], effects: Effects): Promise<number> {
         settings: values.settings as string | undefined,
       },
       effects,
+      { hash: false },
     );
     requireSessions(inputs);
     writeFileAtomically(out, sessionsCsv(inputs.summaries, inputs.hasActivity));

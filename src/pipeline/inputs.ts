@@ -54,7 +54,16 @@ function hashFile(role: InputFile["role"], path: string): InputFile {
   };
 }
 
-export function loadInputs(paths: InputPaths, effects: Effects): LoadedInputs {
+/**
+ * `hash: false` skips the SHA-256 of the data file (about 1 s per GB): `summarize` writes no
+ * manifest, so it has no use for it.
+ */
+export function loadInputs(
+  paths: InputPaths,
+  effects: Effects,
+  options: { hash?: boolean } = {},
+): LoadedInputs {
+  const hashing = options.hash ?? true;
   // Order: settings and card first, because parsing the data needs the card's constructs and the settings' limits.
   const settings = loadSettings(paths.settings);
   const card = loadCard(paths.card);
@@ -78,11 +87,18 @@ export function loadInputs(paths: InputPaths, effects: Effects): LoadedInputs {
   if (paths.windows) {
     const hash = createHash("sha256");
     let bytes = 0;
-    const w = summarizeWindowsFile(paths.windows, card, settings, (chunk) => {
-      hash.update(chunk);
-      bytes += chunk.length;
-    });
-    files.push({ role: "windows", name: w.file, sha256: hash.digest("hex"), bytes });
+    const w = summarizeWindowsFile(
+      paths.windows,
+      card,
+      settings,
+      hashing
+        ? (chunk) => {
+            hash.update(chunk);
+            bytes += chunk.length;
+          }
+        : undefined,
+    );
+    files.push({ role: "windows", name: w.file, sha256: hashing ? hash.digest("hex") : "", bytes });
     summaries = w.summaries;
     hasActivity = w.columns.hasActivity;
     accounts.push(fileAccount("windows", w.account, w.columns.ignored));
