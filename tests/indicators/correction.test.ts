@@ -10,28 +10,10 @@ import {
 import { roganGladen } from "../../src/stats/rogan-gladen.js";
 import type { SessionSummary } from "../../src/summaries/types.js";
 import { expectClose } from "../stats/close.js";
+import { testConstruct } from "../support/cards.js";
 
 function card(over: Partial<ConstructCard> = {}): ConstructCard {
-  return {
-    key: "bored",
-    label: "Boredom",
-    kind: "affect",
-    higherIs: "concern",
-    auc: 0.71,
-    aucPositives: 140,
-    aucNegatives: 1100,
-    kappa: undefined,
-    threshold: 0.5,
-    sensitivity: undefined,
-    specificity: undefined,
-    meanPInState: undefined,
-    meanPNotInState: undefined,
-    sdPInState: undefined,
-    sdPNotInState: undefined,
-    sustainedMinWindows: 6,
-    calibration: { kind: "none" },
-    ...over,
-  };
+  return testConstruct({ sustainedMinWindows: 6, ...over });
 }
 
 function summary(over: Partial<SessionSummary>): SessionSummary {

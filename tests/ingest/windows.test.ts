@@ -5,33 +5,9 @@ import { describe, expect, it } from "vitest";
 import { DEFAULT_SETTINGS } from "../../src/config/defaults.js";
 import type { Card } from "../../src/config/types.js";
 import { summarizeWindowsFile } from "../../src/ingest/windows.js";
+import { testCard, testConstruct } from "../support/cards.js";
 
-const card: Card = {
-  windowSeconds: 20,
-  validatedSettings: [],
-  aucFloor: 0.6,
-  constructs: [
-    {
-      key: "bored",
-      label: "Boredom",
-      kind: "affect",
-      higherIs: "concern",
-      auc: 0.71,
-      aucPositives: 140,
-      aucNegatives: 1100,
-      kappa: undefined,
-      threshold: 0.5,
-      sensitivity: undefined,
-      specificity: undefined,
-      meanPInState: undefined,
-      meanPNotInState: undefined,
-      sdPInState: undefined,
-      sdPNotInState: undefined,
-      sustainedMinWindows: 3,
-      calibration: { kind: "none" },
-    },
-  ],
-};
+const card: Card = testCard([testConstruct({ sustainedMinWindows: 3 })]);
 
 const header = "student_id,class_id,unit_id,session_id,window_start,bored";
 const rows = [
