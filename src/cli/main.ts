@@ -3,26 +3,19 @@
  * engagement-report: the command line. Each command is one short function:
  *   summarize: read → validate → summarise → write sessions.csv
  *   check:     read → validate → summarise → print the data-quality account
- *   build:     read → validate → summarise → write data/ and manifest.json (indicators and reports plug in here)
+ *   build:     read → validate → summarise → estimate → model the report → render → print (build-command.ts)
  *   demo:      simulate the demo district → build
+ *   sql:       print the same aggregation as SQL for another engine
+ * The heavy stages (indicators, charts, browser) are loaded only by build and demo.
  */
-import { mkdirSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { parseArgs } from "node:util";
-import { writeDemoDistrict } from "../demo/simulate.js";
 import { type Effects, processEffects } from "../effects.js";
 import { EXIT, ReportError, UsageError } from "../errors.js";
-import { computeIndicators } from "../indicators/index.js";
 import { formatQuality } from "../ingest/quality-report.js";
 import { msg } from "../messages.js";
-import { checkOutputDir, writeChunks, writeFileAtomically, writeFolderAtomically } from "../output/atomic.js";
-import { activitiesCsv, groupsCsv, studentsCsv, trendsCsv, unitsCsv } from "../output/indicator-csv.js";
-import { manifestFor } from "../output/manifest.js";
+import { checkOutputDir, writeFileAtomically } from "../output/atomic.js";
 import { type InputPaths, loadInputs, requireSessions } from "../pipeline/inputs.js";
-import { createChartRenderer } from "../reports/charts.js";
-import { findChromium, printPdfs } from "../reports/pdf.js";
-import { buildSite } from "../reports/site.js";
-import { pdfJobs, writeSite } from "../reports/write.js";
 import { sqlCommand } from "../sql/sql-command.js";
 import { sessionsCsv } from "../summaries/sessions-csv.js";
 import { VERSION } from "../version.js";
@@ -151,59 +144,6 @@ function inputPaths(values: Record<string, unknown>, command: string): InputPath
   };
 }
 
-export interface BuildOptions {
-  readonly pdf: boolean;
-  readonly command: string;
-}
-
-/**
- * read → validate → summarise → estimate → model the report → render → print, inside one atomic
- * output folder. The browser is looked for before anything is written, so a missing one fails early.
- */
-async function build(paths: InputPaths, out: string, effects: Effects, options: BuildOptions): Promise<void> {
-  checkOutputDir(out);
-  const chromium = options.pdf ? findChromium() : null;
-  const inputs = loadInputs(paths, effects);
-  requireSessions(inputs);
-  const indicators = computeIndicators(inputs);
-  const buildTime = inputs.settings.buildTime ?? effects.now().toISOString();
-  const pages = await buildSite({ inputs, indicators, builtAt: buildTime }, createChartRenderer());
-  await writeFolderAtomically(out, async (tmp) => {
-    mkdirSync(join(tmp, "data"));
-    const data = (name: string) => join(tmp, "data", name);
-    writeChunks(data("sessions.csv"), sessionsCsv(inputs.summaries, inputs.hasActivity));
-    writeChunks(data("quality.json"), `${JSON.stringify(inputs.quality, null, 2)}\n`);
-    writeChunks(data("students.csv"), studentsCsv(indicators.students));
-    writeChunks(data("units.csv"), unitsCsv(indicators.units));
-    if (inputs.hasActivity) writeChunks(data("activities.csv"), activitiesCsv(indicators.activities));
-    writeChunks(data("groups.csv"), groupsCsv(indicators.groups));
-    writeChunks(data("trends.csv"), trendsCsv(indicators.trends));
-    writeSite(tmp, pages);
-    if (chromium) {
-      const fixed = inputs.settings.buildTime ? new Date(inputs.settings.buildTime) : undefined;
-      await printPdfs(
-        pdfJobs(tmp, pages, inputs.settings.title, inputs.settings.allStudentPages),
-        chromium,
-        fixed,
-      );
-    }
-    // Last: the manifest lists every file written before it.
-    writeChunks(
-      join(tmp, "manifest.json"),
-      manifestFor(tmp, {
-        version: VERSION,
-        buildTime,
-        inputs: inputs.files,
-        card: inputs.card,
-        settings: inputs.settings,
-        command: options.command,
-      }),
-    );
-  });
-  for (const w of effects.warnings.list) effects.err(`warning: ${w}`);
-  effects.out(`wrote ${resolve(out)}`);
-}
-
 export async function run(argv: string[], effects: Effects): Promise<number> {
   const [command, ...args] = argv;
   if (command === undefined || command === "--help" || command === "-h" || command === "help") {
@@ -246,6 +186,7 @@ export async function run(argv: string[], effects: Effects): Promise<number> {
     effects.err(`engagement-report: ${msg.noUsableRows()}`);
     return EXIT.input;
   } else if (command === "build") {
+    const { build } = await import("./build-command.js");
     await build(inputPaths(values, command), need(values, "out", command), effects, {
       pdf: values["no-pdf"] !== true,
       command: "build",
@@ -259,6 +200,8 @@ export async function run(argv: string[], effects: Effects): Promise<number> {
     checkOutputDir(out);
     const { mkdtempSync, rmSync } = await import("node:fs");
     const { tmpdir } = await import("node:os");
+    const { writeDemoDistrict } = await import("../demo/simulate.js");
+    const { build } = await import("./build-command.js");
     const dir = mkdtempSync(join(tmpdir(), "engagement-report-demo-"));
     try {
       const paths = await writeDemoDistrict(dir, {
