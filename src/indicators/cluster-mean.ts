@@ -1,22 +1,14 @@
-import { moderatedVariance } from "../stats/moderated-variance.js";
 import type { Cell } from "./collect.js";
 
 /**
  * The mean detector signal over clusters of windows (a student's sessions, or a group's students),
- * with a variance that treats clusters as independent and windows within a cluster as not.
- *
- * - Own (cluster-robust) variance of the ratio mean m = Σs/Σn over k clusters:
+ * with the pieces its variance is built from:
+ * - the cluster-robust variance of the ratio mean m = Σs/Σn over k clusters,
  *   V_cl = k/(k − 1)·Σ(s_j − m·n_j)²/N² (the linearisation variance of a ratio estimator;
- *   Cochran 1977, Sampling Techniques, §6.3, with the k/(k − 1) small-sample factor).
- * - Model variance: windows as if independent, V_srs = (Σs²/N − m²)/N, times Kish's design effect
- *   1 + (M − 1)ρ with M = Σn_j²/N the cluster size weighted by windows and ρ the within-cluster
- *   correlation pooled over all students of the construct (pooledCorrelation below).
- * - With few clusters V_cl is itself very uncertain (3 sessions give it 2 degrees of freedom), so
- *   the two are pooled by degrees of freedom (moderated variance, Smyth 2004): the model counts
- *   as PRIOR_DF clusters' worth, and the t quantile uses PRIOR_DF + k − 1 degrees of freedom.
+ *   Cochran 1977, Sampling Techniques, §6.3, with the k/(k − 1) small-sample factor), used for groups;
+ * - the windows-as-independent variance V_srs = (Σs²/N − m²)/N and the cluster size weighted by
+ *   windows M = Σn_j²/N, for Kish's design effect 1 + (M − 1)ρ (observedMean, pooledCorrelation).
  */
-export const PRIOR_DF = 8;
-
 export interface ClusterMean {
   readonly n: number;
   readonly mean: number;
@@ -75,24 +67,6 @@ export function clusterParts(cells: Iterable<Cell>): ClusterParts {
     robust,
     meanClusterSize: n > 0 ? nn / n : 0,
     clusters: k,
-  };
-}
-
-/** The moderated cluster mean; `correlation` is the pooled within-cluster correlation ρ. */
-export function clusterMean(parts: ClusterParts, correlation: number): ClusterMean {
-  const model = parts.srs * (1 + Math.max(0, parts.meanClusterSize - 1) * correlation);
-  const moderated = moderatedVariance({
-    variance: parts.robust,
-    degreesOfFreedom: Math.max(0, parts.clusters - 1),
-    priorVariance: model,
-    priorDegreesOfFreedom: PRIOR_DF,
-  });
-  return {
-    n: parts.n,
-    mean: parts.mean,
-    variance: moderated.variance,
-    degreesOfFreedom: moderated.degreesOfFreedom,
-    clusters: parts.clusters,
   };
 }
 

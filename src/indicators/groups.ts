@@ -1,6 +1,6 @@
 import { empiricalBayesNormal } from "../stats/empirical-bayes-normal.js";
 import { type ClusterParts, clusterParts } from "./cluster-mean.js";
-import type { Cell, GroupPart } from "./collect.js";
+import type { Cell, GroupPart, StudentData } from "./collect.js";
 import { beyondLine, type ConstructContext } from "./context.js";
 import { correctedShare, correctedShareVariance } from "./correction.js";
 import { peerRatio, unitMeanVariances } from "./peer-ratio.js";
@@ -48,13 +48,30 @@ export function groupMembers(ctx: ConstructContext): Members[] {
       }
       m.students.set(studentId, part);
     }
-    const all: GroupPart = { n: s.n, s: s.s, s2: s.s2, units: s.units, weeks: new Map() };
+    const all: GroupPart = { n: s.n, s: s.s, s2: s.s2, units: s.units, weeks: weeksOf(s) };
     district.students.set(studentId, all);
   }
   out.push(district);
   for (const key of [...schools.keys()].sort()) out.push(schools.get(key) as Members);
   for (const key of [...classes.keys()].sort()) out.push(classes.get(key) as Members);
   return out;
+}
+
+/** A student's windows by ISO week, with the sessions in each (the district's part of the student). */
+function weeksOf(student: StudentData): GroupPart["weeks"] {
+  const weeks: GroupPart["weeks"] = new Map();
+  for (const [sessionId, session] of student.sessions) {
+    let w = weeks.get(session.week);
+    if (!w) {
+      w = { n: 0, s: 0, s2: 0, sessions: new Set() };
+      weeks.set(session.week, w);
+    }
+    w.n += session.n;
+    w.s += session.s;
+    w.s2 += session.s2;
+    w.sessions.add(sessionId);
+  }
+  return weeks;
 }
 
 function robustMean(parts: ClusterParts): { mean: number; variance: number; df: number } {
@@ -98,11 +115,7 @@ export function groupIndicators(
   const raw: Raw[] = members.map((m) => {
     const parts = clusterParts(m.students.values());
     const r = robustMean(parts);
-    let share: Raw["share"] = null;
-    if (correction.mode !== "relative") {
-      const v = correctedShare(correction, r.mean);
-      share = { value: v, variance: correctedShareVariance(correction, r.variance, v), df: r.df };
-    }
+    const share = groupShare(ctx, parts);
     const ratio =
       m.level === "district"
         ? null
@@ -127,10 +140,12 @@ export function groupIndicators(
       variances: eligible.map((x) => x.share!.variance),
     });
     eligible.forEach((x, i) => {
-      const t = ctx.critical(x.share!.df);
-      const v = eb.shrunk[i] as number;
-      const sd = Math.sqrt(eb.posteriorVariances[i] as number);
-      shrunk.set(x, clampEstimate(v, v - t * sd, v + t * sd));
+      const posterior = {
+        value: eb.shrunk[i] as number,
+        variance: eb.posteriorVariances[i] as number,
+        df: x.share!.df,
+      };
+      shrunk.set(x, shareInterval(ctx, posterior));
     });
   }
   return raw.map((x) => {
@@ -155,11 +170,7 @@ export function groupIndicators(
     if (why !== null)
       return { ...base, status: "suppressed" as const, share: null, ratio: null, reason: why };
     let share: Estimate | null = shrunk.get(x) ?? null;
-    if (!share && x.share) {
-      const t = ctx.critical(x.share.df);
-      const sd = Math.sqrt(x.share.variance);
-      share = clampEstimate(x.share.value, x.share.value - t * sd, x.share.value + t * sd);
-    }
+    if (!share && x.share) share = shareInterval(ctx, x.share);
     const r = x.ratio;
     const elevated = r !== null && beyondLine(ctx.direction, r.low, r.high, settings.flags.groupRatio);
     const peers = x.m.level === "class" ? "other classes" : "other schools";
@@ -183,6 +194,31 @@ export function groupIndicators(
       reason: text,
     };
   });
+}
+
+export interface GroupShare {
+  readonly value: number;
+  readonly variance: number;
+  readonly df: number;
+}
+
+/**
+ * A group's corrected share (unclamped) with its variance: students as clusters, plus the
+ * correction's uncertainty; t with K − 1 degrees of freedom. Null in relative mode. Shared by the
+ * whole-period figures and the weekly trends.
+ */
+export function groupShare(ctx: ConstructContext, parts: ClusterParts): GroupShare | null {
+  if (ctx.correction.mode === "relative") return null;
+  const r = robustMean(parts);
+  const value = correctedShare(ctx.correction, r.mean);
+  return { value, variance: correctedShareVariance(ctx.correction, r.variance, value), df: r.df };
+}
+
+/** The plausible range of a group share, every end kept within [0, 1]. */
+export function shareInterval(ctx: ConstructContext, share: GroupShare): Estimate {
+  const t = ctx.critical(share.df);
+  const sd = Math.sqrt(share.variance);
+  return clampEstimate(share.value, share.value - t * sd, share.value + t * sd);
 }
 
 function clampEstimate(value: number, low: number, high: number): Estimate {

@@ -1,8 +1,7 @@
 import { clusterParts } from "./cluster-mean.js";
 import type { Cell } from "./collect.js";
 import type { ConstructContext } from "./context.js";
-import { correctedShare, correctedShareVariance } from "./correction.js";
-import type { groupMembers } from "./groups.js";
+import { type groupMembers, groupShare, shareInterval } from "./groups.js";
 import { sessionMean, shareEstimate } from "./students.js";
 import type { Suppression } from "./suppression.js";
 import type { Estimate, StudentIndicator, TrendRow } from "./types.js";
@@ -55,31 +54,12 @@ export function groupTrends(
   const size = ctx.settings.suppressionSize;
   for (const m of members) {
     const weeks = new Map<string, { cells: Cell[]; sessions: number }>();
-    if (m.level === "district") {
-      for (const s of ctx.data.students.values()) {
-        const perWeek = new Map<string, Cell>();
-        for (const session of s.sessions.values()) {
-          const c = perWeek.get(session.week) ?? { n: 0, s: 0, s2: 0 };
-          c.n += session.n;
-          c.s += session.s;
-          c.s2 += session.s2;
-          perWeek.set(session.week, c);
-        }
-        for (const [week, c] of perWeek) {
-          const w = weeks.get(week) ?? { cells: [], sessions: 0 };
-          w.cells.push(c);
-          w.sessions += [...s.sessions.values()].filter((x) => x.week === week).length;
-          weeks.set(week, w);
-        }
-      }
-    } else {
-      for (const part of m.students.values()) {
-        for (const [week, c] of part.weeks) {
-          const w = weeks.get(week) ?? { cells: [], sessions: 0 };
-          w.cells.push(c);
-          w.sessions += c.sessions.size;
-          weeks.set(week, w);
-        }
+    for (const part of m.students.values()) {
+      for (const [week, c] of part.weeks) {
+        const w = weeks.get(week) ?? { cells: [], sessions: 0 };
+        w.cells.push(c);
+        w.sessions += c.sessions.size;
+        weeks.set(week, w);
       }
     }
     const groupWithheld = suppression.withheld(m.level, m.id);
@@ -88,13 +68,8 @@ export function groupTrends(
       const parts = clusterParts(w.cells);
       const withheld = groupWithheld || parts.clusters < size;
       let share: Estimate | null = null;
-      if (!withheld && parts.clusters > 1) {
-        const v = correctedShare(ctx.correction, parts.mean);
-        const sd = Math.sqrt(correctedShareVariance(ctx.correction, parts.robust, v));
-        const t = ctx.critical(parts.clusters - 1);
-        const c = (x: number) => Math.min(1, Math.max(0, x));
-        share = { value: c(v), low: c(v - t * sd), high: c(v + t * sd) };
-      }
+      const g = !withheld && parts.clusters > 1 ? groupShare(ctx, parts) : null;
+      if (g) share = shareInterval(ctx, g);
       out.push({
         level: m.level,
         id: m.id,
