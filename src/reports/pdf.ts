@@ -11,6 +11,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { pathToFileURL } from "node:url";
 import { InputError } from "../errors.js";
+import { escapeHtml } from "./html.js";
 
 export interface PdfJob {
   /** Absolute path of the PDF to write. */
@@ -57,15 +58,12 @@ export const LAUNCH_ARGS = [
   "--disable-sync",
 ];
 
-const escapeText = (s: string) =>
-  s.replace(/[&<>"]/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[c] as string);
-
 /** Joins full pages into one printable document: the first page's head, every page's main content. */
 export function bundle(title: string, pages: readonly string[]): string {
   const first = pages[0] ?? "";
   const head = first
     .slice(0, first.indexOf("</head>"))
-    .replace(/<title>[^<]*<\/title>/, `<title>${escapeText(title)}</title>`);
+    .replace(/<title>[^<]*<\/title>/, `<title>${escapeHtml(title).html}</title>`);
   const mains = pages.map((p, i) => {
     const start = p.indexOf('<main id="main">');
     const end = p.lastIndexOf("</main>");
