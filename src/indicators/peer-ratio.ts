@@ -16,7 +16,12 @@ import type { Estimate } from "./types.js";
  * and Cov = N²v₀, where V_own is the subject's clustered variance of its mean (cluster-mean.ts),
  * V_u that of the peers' mean in unit u (students as clusters), v₀ = Var(μ̂₀). Units where the subject
  * has no peers are left out of both sums. The lower limit is kept at 0 or more: a share cannot be
- * negative. No ratio (null) when the peers' expected share is not clearly above zero.
+ * negative. When the peers' expected share is not clearly above zero (often: a rare state, and a
+ * validation sample that leaves μ₀ uncertain) but the subject's own excess is, Fieller's set is
+ * two rays (−∞, r₁] ∪ [r₂, ∞); a ratio of two shares is never negative, so with r₁ < 0 < r₂ the
+ * range is [r₂, ∞): "r₂ or more", with no upper end (high = +∞), which can still clear a line in
+ * the "more" direction and never in the "less" one. No ratio (null) when the set says nothing
+ * more than "0 or more", or when the peers' expected share is not above zero at all.
  */
 export interface PeerRatioInput {
   readonly own: ReadonlyMap<string, Cell>;
@@ -65,11 +70,20 @@ export function peerRatio(input: PeerRatioInput): PeerRatio {
     covariance: v0,
     critical: input.critical,
   });
-  if (f.kind !== "bounded" || !(b > 0)) return { ratio: null, expectedMean: expected / n, windows: n };
+  const none = { ratio: null, expectedMean: expected / n, windows: n };
+  if (!(b > 0)) return none;
+  if (f.kind === "exclusive") {
+    // [r₂, ∞) is the whole range within [0, ∞) only when the other ray lies below 0.
+    if (!(f.lower < 0 && f.upper > 0)) return none;
+    return {
+      ...none,
+      ratio: { value: Math.max(f.upper, f.ratio), low: f.upper, high: Number.POSITIVE_INFINITY },
+    };
+  }
+  if (f.kind !== "bounded") return none;
   return {
+    ...none,
     ratio: { value: Math.max(0, f.ratio), low: Math.max(0, f.lower), high: Math.max(0, f.upper) },
-    expectedMean: expected / n,
-    windows: n,
   };
 }
 

@@ -14,6 +14,16 @@ export function ratioText(x: number): string {
   return x >= 1 ? x.toFixed(1) : x.toFixed(2);
 }
 
+/**
+ * A ratio's plausible range read aloud: "1.6 to 2.7", or "1.8 or more" when it has no upper end
+ * (peer-ratio.ts: the peers' own level is too uncertain to divide by).
+ */
+export function ratioRangeText(r: Estimate): string {
+  return r.high === Number.POSITIVE_INFINITY
+    ? `${ratioText(r.low)} or more`
+    : `${ratioText(r.low)} to ${ratioText(r.high)}`;
+}
+
 /** A share as a whole percentage, "under 1%" and "over 99%" at the ends. */
 export function percentText(x: number): string {
   const p = x * 100;
@@ -49,7 +59,7 @@ export const reasons = {
     `Across ${plural(sessions, "session")} on ${plural(days, "day")}`,
 
   ratio: (label: string, r: Estimate, peers: string): string =>
-    `the estimates show ${lower(label)} about ${ratioText(r.value)} times as often as in ${peers} on the same units. The plausible range is ${ratioText(r.low)} to ${ratioText(r.high)}`,
+    `the estimates show ${lower(label)} about ${ratioText(r.value)} times as often as in ${peers} on the same units. The plausible range is ${ratioRangeText(r)}${r.high === Number.POSITIVE_INFINITY ? `, with no upper end, because the level in ${peers} is itself uncertain` : ""}`,
 
   noRatio: (label: string, peers: string): string =>
     `${peers} on the same units showed too little ${lower(label)} for a comparison`,

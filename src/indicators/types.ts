@@ -8,6 +8,7 @@ export type GroupStatus = "elevated" | "typical" | "suppressed" | "detector-too-
 export interface Estimate {
   readonly value: number;
   readonly low: number;
+  /** +∞ only for a ratio with no upper end (peer-ratio.ts); shares are always within [0, 1]. */
   readonly high: number;
 }
 

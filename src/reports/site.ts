@@ -10,7 +10,7 @@ import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { Eta } from "eta";
 import type { Audience, ConstructCard } from "../config/types.js";
-import { percentText, ratioText } from "../indicators/reasons.js";
+import { percentText, ratioRangeText, ratioText } from "../indicators/reasons.js";
 import type {
   GroupIndicator,
   Indicators,
@@ -600,7 +600,7 @@ async function supportPage(ctx: Ctx): Promise<void> {
             ? `${percentText(g.share.value)} (${percentText(g.share.low)} to ${percentText(g.share.high)})`
             : "withheld",
           g.ratio
-            ? `${ratioText(g.ratio.value)} (${ratioText(g.ratio.low)} to ${ratioText(g.ratio.high)})`
+            ? `${ratioText(g.ratio.value)} (${ratioRangeText(g.ratio)})`
             : g.status === "suppressed"
               ? "withheld"
               : "not available",

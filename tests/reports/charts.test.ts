@@ -302,6 +302,30 @@ describe("interval chart: rows, marks and data table", () => {
     expect(JSON.stringify(chart)).not.toMatch(/3\.3|2\.2|4\.4/);
   });
 
+  it("draws a range with no upper end (+∞) to the right edge and writes it as 'or more'", async () => {
+    const rows: IntervalRow[] = [
+      { label: "Avery", value: 2.4, low: 1.5, high: Number.POSITIVE_INFINITY, marker: "concern" },
+      { label: "Blake", value: 1.1, low: 0.8, high: 1.5, marker: "typical" },
+    ];
+    const chart = await renderer.intervals(intervalOptions({ id: "open-end", rows }));
+    expect(chart.table.rows.map((row) => row[2])).toEqual(["1.5 or more", "0.8 to 1.5"]);
+    const ends = [
+      ...markGroup(chart.svg.html, "intervals_marks").matchAll(
+        /translate\(([\d.]+),[\d.]+\)" x2="([\d.]+)"/g,
+      ),
+    ].map((m) => ({ start: Number(m[1]), end: Number(m[1]) + Number(m[2]) }));
+    expect(ends).toHaveLength(2);
+    // Avery's range starts at 1.5, where Blake's ends, and runs on to the axis' end, past Blake's.
+    expect(ends[0]!.start).toBeCloseTo(ends[1]!.end, 6);
+    expect(ends[0]!.end).toBeGreaterThan(ends[1]!.end + 50);
+    // The open range ends where the axis ends: no finite end was invented for it, and it reaches
+    // further right than the bounded one.
+    expect(chart.svg.html).not.toMatch(/Infinity|NaN/);
+    await expect(
+      renderer.intervals(intervalOptions({ rows: [{ ...rows[0]!, low: Number.NEGATIVE_INFINITY }] })),
+    ).rejects.toThrow(RangeError);
+  });
+
   it("formats percent and points tables and axis labels", async () => {
     const percent = await renderer.intervals(
       intervalOptions({

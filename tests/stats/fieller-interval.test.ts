@@ -161,8 +161,8 @@ describe("Fieller interval: limits are where the pivot crosses ±c (brute force)
   });
 });
 
-describe("Fieller interval: unbounded when b² ≤ c²Vb (Fieller 1954; Franz 2007)", () => {
-  it("b = 0 gives an unbounded set, ratio NaN and g = ∞", () => {
+describe("Fieller interval: not bounded when b² ≤ c²Vb (Fieller 1954; Franz 2007)", () => {
+  it("b = 0 with a numerator near 0 gives the whole line, ratio NaN and g = ∞", () => {
     const f = run({ a: 1, b: 0, va: 1, vb: 1, cov: 0, c: Z95 });
     expect(f.kind).toBe("unbounded");
     expect(f.lower).toBe(Number.NEGATIVE_INFINITY);
@@ -171,29 +171,73 @@ describe("Fieller interval: unbounded when b² ≤ c²Vb (Fieller 1954; Franz 20
     expect(f.g).toBe(Number.POSITIVE_INFINITY);
   });
 
-  it("at the boundary b² = c²Vb (b = 2, Vb = 1, c = 2) the set is unbounded, with g = 1", () => {
+  it("at the boundary b² = c²Vb (b = 2, Vb = 1, c = 2) the set is not bounded, with g = 1", () => {
     const f = run({ a: 3, b: 2, va: 1, vb: 1, cov: 0, c: 2 });
     expect(f.kind).toBe("unbounded");
     expect(f.g).toBe(1);
   });
 
-  it("just inside the boundary it is bounded, just outside unbounded; g ≥ 1 ⇔ unbounded", () => {
+  it("just inside the boundary it is bounded, just outside not; g ≥ 1 ⇔ not bounded", () => {
     const base = { a: 3, va: 1, vb: 1, cov: 0.2, c: 2 };
     expect(run({ ...base, b: 2.001 }).kind).toBe("bounded");
     expect(run({ ...base, b: -2.001 }).kind).toBe("bounded");
-    expect(run({ ...base, b: 1.999 }).kind).toBe("unbounded");
-    expect(run({ ...base, b: -1.999 }).kind).toBe("unbounded");
+    expect(run({ ...base, b: 1.999 }).kind).not.toBe("bounded");
+    expect(run({ ...base, b: -1.999 }).kind).not.toBe("bounded");
     for (const b of [-3, -2.5, -1, 0.5, 1.5, 2.5, 4]) {
       const f = run({ ...base, b });
-      expect(f.kind === "unbounded", `b = ${b}`).toBe(f.g >= 1);
+      expect(f.kind !== "bounded", `b = ${b}`).toBe(f.g >= 1);
     }
   });
 
   it("when b² < c²Vb, arbitrarily large |ρ| do satisfy |T(ρ)| ≤ c, so no finite interval is right", () => {
     // |T(ρ)| → |b|/√Vb as |ρ| → ∞ (from the definition), which is below c here.
     const k: Case = { a: 3, b: 1.5, va: 1, vb: 1, cov: 0.2, c: 2 };
-    expect(run(k).kind).toBe("unbounded");
+    expect(run(k).kind).not.toBe("bounded");
     for (const rho of [1e4, -1e4, 1e8, -1e8]) expect(Math.abs(pivot(k, rho))).toBeLessThan(k.c);
+  });
+
+  it("the exclusive case by hand: a = 3, b = 1.5, Va = Vb = 1, C = 0, c = 2", () => {
+    // (b² − c²Vb)ρ² − 2abρ + (a² − c²Va) ≤ 0 is −1.75ρ² − 9ρ + 5 ≤ 0: roots (9 ∓ √116)/(−3.5),
+    // i.e. −5.5487… and 0.5201…, worked with the quadratic formula here. The numerator is clearly
+    // away from 0 (a² > c²Va), so the set is the two rays outside the roots (Franz 2007, §3).
+    const f = run({ a: 3, b: 1.5, va: 1, vb: 1, cov: 0, c: 2 });
+    expect(f.kind).toBe("exclusive");
+    expectClose(f.lower, (9 + Math.sqrt(116)) / -3.5, { abs: 1e-12 });
+    expectClose(f.upper, (9 - Math.sqrt(116)) / -3.5, { abs: 1e-12 });
+    expect(f.ratio).toBe(2);
+  });
+
+  it("exclusive sets match the definition on a grid: ρ is in (−∞, lower] ∪ [upper, ∞) ⇔ |T(ρ)| ≤ c", () => {
+    const random = createRandom(20260);
+    let exclusive = 0;
+    let checked = 0;
+    for (let draw = 0; draw < 300; draw++) {
+      const vb = 0.2 + random.uniform() * 2;
+      const va = 0.2 + random.uniform() * 2;
+      const cov = (random.uniform() * 2 - 1) * 0.8 * Math.sqrt(va * vb);
+      const k: Case = {
+        a: 1 + random.uniform() * 6,
+        b: (random.uniform() * 2 - 1) * 2 * Math.sqrt(vb),
+        va,
+        vb,
+        cov,
+        c: Z95,
+      };
+      const f = run(k);
+      if (f.kind !== "exclusive") continue;
+      exclusive++;
+      expect(f.lower).toBeLessThan(f.upper);
+      for (let i = 0; i <= 400; i++) {
+        const rho = f.lower + ((f.upper - f.lower) * (i - 100)) / 200;
+        // Skip points within 1e-7 of a root, where rounding decides.
+        if (Math.abs(rho - f.lower) < 1e-7 || Math.abs(rho - f.upper) < 1e-7) continue;
+        const inside = Math.abs(pivot(k, rho)) <= k.c;
+        expect(inside, `draw ${draw}, ρ = ${rho}`).toBe(rho < f.lower || rho > f.upper);
+        checked++;
+      }
+    }
+    expect(exclusive).toBeGreaterThan(50);
+    expect(checked).toBeGreaterThan(20_000);
   });
 
   it("rejects negative variances and a non-positive critical value", () => {

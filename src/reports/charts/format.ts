@@ -43,9 +43,10 @@ export function formatValue(value: number, format: ValueFormat): string {
   }
 }
 
-/** "1.6 to 2.7"; "not available" when either end is missing. */
+/** "1.6 to 2.7"; "1.8 or more" with no upper end (+∞); "not available" when either end is missing. */
 export function formatRange(low: number | null, high: number | null, format: ValueFormat): string {
   if (low === null || high === null) return "not available";
+  if (high === Number.POSITIVE_INFINITY) return `${formatValue(low, format)} or more`;
   return `${formatValue(low, format)} to ${formatValue(high, format)}`;
 }
 

@@ -28,12 +28,17 @@ function checkNumber(value: number | null, what: string): void {
     throw new RangeError(`${what} must be a finite number or null`);
 }
 
+/** A high end may also be +∞: a range with no upper end (a ratio whose denominator is uncertain). */
+function checkHigh(value: number | null, what: string): void {
+  if (value !== Number.POSITIVE_INFINITY) checkNumber(value, what);
+}
+
 function checkOptions(options: IntervalChartOptions): void {
   checkChartId(options.id);
   options.rows.forEach((row, index) => {
     checkNumber(row.value, `rows[${index}].value`);
     checkNumber(row.low, `rows[${index}].low`);
-    checkNumber(row.high, `rows[${index}].high`);
+    checkHigh(row.high, `rows[${index}].high`);
     if (row.low !== null && row.high !== null && row.low > row.high) {
       throw new RangeError(`rows[${index}]: low (${row.low}) is above high (${row.high})`);
     }
@@ -51,7 +56,8 @@ function chartDomain(options: IntervalChartOptions): Domain {
   const values: number[] = [];
   for (const row of options.rows.filter(isDrawn)) {
     values.push(row.value);
-    if (row.low !== null && row.high !== null) values.push(row.low, row.high);
+    if (row.low !== null && row.high !== null) values.push(row.low);
+    if (row.high !== null && Number.isFinite(row.high)) values.push(row.high);
   }
   for (const guide of [options.reference, options.line]) if (guide !== undefined) values.push(guide.value);
   if (options.scale === "log") return logDomain(values);
@@ -84,8 +90,10 @@ function noteText(row: IntervalRow): string {
 }
 
 function viewData(options: IntervalChartOptions, domain: Domain): Record<string, object[]> {
-  // A log scale cannot place 0 or less: such ends are drawn at the left edge (the table has the value).
-  const place = (value: number): number => (options.scale === "log" ? Math.max(value, domain.lo) : value);
+  // A log scale cannot place 0 or less: such ends are drawn at the left edge, and an open upper end
+  // at the right edge (the table has the values).
+  const place = (value: number): number =>
+    Math.min(domain.hi, options.scale === "log" ? Math.max(value, domain.lo) : value);
   const intervals: object[] = [];
   const points: object[] = [];
   const notes: object[] = [];
