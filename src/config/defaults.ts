@@ -19,7 +19,7 @@ export const DEFAULT_SETTINGS: Settings = {
   audiences: ["check-ins", "content", "support", "about"],
   evidence: { minMinutes: 30, minSessions: 3, minDays: 2, minStudents: 10 },
   suppressionSize: 10,
-  flags: { studentRatio: 1.3, groupRatio: 1.25, unitQ: 0.05 },
+  flags: { studentRatio: 1.2, groupRatio: 1.25, unitQ: 0.05 },
   allStudentPages: false,
   replicates: 1000,
   pseudonymise: { keyEnv: null, keyFile: null },
@@ -48,7 +48,7 @@ export const DEFAULT_REASONS: Readonly<Record<string, string>> = {
   suppressionSize:
     "10 students, the most common minimum group size in state practice (NCES 2011-603, SLDS Technical Brief 3, 2010); the tool refuses values below 5.",
   "flags.studentRatio":
-    "1.3 times peers on the same content, for the whole plausible range (never the point alone): about a third more is a difference a counselor can notice, and requiring the whole range keeps false flags rare. In our simulations (README, methods) students whose true ratio is below 1.2 were flagged under 0.1% of the time while about 7 in 10 students with planted high boredom were found. Our choice, not a published standard.",
+    "1.2 times peers on the same content, for the whole plausible range (never the point alone): the range must rule out anything under a fifth more, so a student whose true ratio is below 1.2 is suggested only when the range misses the truth (at most 2.5% for a student right at 1.2, far less below it). In our simulations (README, methods) students whose true ratio was below 1.2 were flagged well under 1% of the time, while 6 to 7 in 10 students with planted high boredom were found. A higher line finds fewer of them: 1.3 found about 5.5 in 10 in the independent district. Our choice, not a published standard.",
   "flags.groupRatio":
     "1.25 times comparable groups on the same content, for the whole plausible range: a class is many students, so its range is narrow and a quarter more is already a pattern worth planning support around. In our simulations no class was marked in districts where nothing was planted. Our choice, not a published standard.",
   "flags.unitQ":

@@ -126,6 +126,8 @@ export function groupIndicators(
             unitVariance,
             correction,
             critical: ctx.critical(r.df),
+            // A group's own excess rests on many students: keep "r₂ or more" (peer-ratio.ts).
+            openEnded: true,
           }).ratio;
     return { m, share, ratio };
   });

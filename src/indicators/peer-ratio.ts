@@ -20,8 +20,13 @@ import type { Estimate } from "./types.js";
  * validation sample that leaves μ₀ uncertain) but the subject's own excess is, Fieller's set is
  * two rays (−∞, r₁] ∪ [r₂, ∞); a ratio of two shares is never negative, so with r₁ < 0 < r₂ the
  * range is [r₂, ∞): "r₂ or more", with no upper end (high = +∞), which can still clear a line in
- * the "more" direction and never in the "less" one. No ratio (null) when the set says nothing
- * more than "0 or more", or when the peers' expected share is not above zero at all.
+ * the "more" direction and never in the "less" one. Such open ranges are given only when the
+ * caller asks (`openEnded`): they arise mostly when the card's μ̂₀ happens to be high, an error
+ * that every subject of the run shares, so their coverage given that they arose is below the
+ * nominal level (measured on the independent simulated district: 0.70 to 0.88 for students,
+ * whose own figures are noisy, against 0.94 to 0.97 for bounded ranges). Groups use them; students
+ * do not. No ratio (null) when the set says nothing more than "0 or more", when the subject's own
+ * excess over μ₀ is not positive, or when the peers' expected share is not above zero at all.
  */
 export interface PeerRatioInput {
   readonly own: ReadonlyMap<string, Cell>;
@@ -31,6 +36,8 @@ export interface PeerRatioInput {
   readonly unitVariance: ReadonlyMap<string, number>;
   readonly correction: Correction;
   readonly critical: number;
+  /** Give "r₂ or more" when the peers' level is too uncertain to divide by (see above). */
+  readonly openEnded?: boolean;
 }
 
 export interface PeerRatio {
@@ -73,12 +80,10 @@ export function peerRatio(input: PeerRatioInput): PeerRatio {
   const none = { ratio: null, expectedMean: expected / n, windows: n };
   if (!(b > 0)) return none;
   if (f.kind === "exclusive") {
-    // [r₂, ∞) is the whole range within [0, ∞) only when the other ray lies below 0.
-    if (!(f.lower < 0 && f.upper > 0)) return none;
-    return {
-      ...none,
-      ratio: { value: Math.max(f.upper, f.ratio), low: f.upper, high: Number.POSITIVE_INFINITY },
-    };
+    // [r₂, ∞) is the whole range within [0, ∞) only when the other ray lies below 0; a/b then lies
+    // in it unless the subject's own excess a is negative.
+    if (!input.openEnded || !(f.lower < 0 && f.upper > 0 && f.ratio >= f.upper)) return none;
+    return { ...none, ratio: { value: f.ratio, low: f.upper, high: Number.POSITIVE_INFINITY } };
   }
   if (f.kind !== "bounded") return none;
   return {

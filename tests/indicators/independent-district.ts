@@ -14,8 +14,9 @@
  *   mean spell in state fixed per construct and the mean spell out of state set so that the
  *   long-run share is the session's target share π = logistic(base + student + unit + class +
  *   session effect). Being off task ends engaged concentration in the same window.
- * - Students differ in both scenarios (a random logit effect per student and construct, sd 0.3),
- *   so the null scenario is "no unit, class or planted effect", not "every student alike".
+ * - Students differ (a random logit effect per student and construct, sd 0.3) in the planted
+ *   scenario and in a third, "varied" one with nothing planted; in the null scenario they are
+ *   exchangeable. The draws are made in every mode, so one seed gives one schedule.
  * - The detector writes p = logistic(logit(b) + δ), where b ~ Beta(a₁, b₁) in state and
  *   Beta(a₀, b₀) out of state, and δ ~ N(0, 0.15²) is one shift per session and construct (a mild
  *   error shared by all windows of a sitting). Probabilities are rounded to 4 decimals; about 1.5%
@@ -148,7 +149,13 @@ export class Rng {
 // ---------------------------------------------------------------------------------------------
 // The model's constants.
 
-export type QuarryMode = "planted" | "null";
+/**
+ * "planted": random unit, class and student effects plus the planted ones. "null": nothing planted
+ * and students exchangeable (no student, unit or class effect; sessions and states still vary), the
+ * scenario in which every check-in is a chance finding. "varied": nothing planted, but students
+ * differ (sd 0.3 on the logit), so some of them truly show much more of a state than their peers.
+ */
+export type QuarryMode = "planted" | "null" | "varied";
 
 export interface QuarryOptions {
   readonly students: number;
@@ -352,7 +359,10 @@ function buildDistrict(options: QuarryOptions, rng: Rng): District {
       klass,
       attendance: 0.2 + 0.35 * rng.uniform(),
       lowData: low.has(i),
-      effects: MODELS.map((_, c) => (flags[c] ? PLANTED.studentShift : 0) + rng.normal() * SD.student),
+      effects: MODELS.map((_, c) => {
+        const random = rng.normal() * SD.student;
+        return options.mode === "null" ? 0 : (flags[c] ? PLANTED.studentShift : 0) + random;
+      }),
       planted: flags,
     };
   });

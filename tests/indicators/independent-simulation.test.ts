@@ -1,10 +1,10 @@
 /**
  * The indicators checked against an independent simulated district (independent-district.ts:
  * semi-Markov states, Beta detectors with a per-session shift, a card from its own validation
- * sample, students who differ in the null scenario too, a time-ordered export with two UTC offsets).
- * The acceptance figures are the same as for the demo (simulation.test.ts); the generator was not
- * tuned to meet them. An assertion marked `it.fails` is a figure the indicators miss on this
- * district today: the comment beside it gives the measured numbers.
+ * sample, a time-ordered export with two UTC offsets). The acceptance figures are the same as for
+ * the demo (simulation.test.ts); the generator was not tuned to meet them. As in the demo, the null
+ * scenario has nothing planted and exchangeable students; the scenario in which students truly
+ * differ with nothing planted is checked in independent-varied.test.ts.
  */
 import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
@@ -128,15 +128,12 @@ describe("independent district: the files themselves", () => {
 
 /**
  * Share coverage was missed for engaged concentration (0.9285) until the card's validation
- * variances were widened by the design effect of windows grouped in sessions (context.ts); it is
- * now 0.975 on these seeds, and every construct is asserted.
+ * variances were widened by the design effect of windows grouped in sessions (context.ts); every
+ * construct is asserted.
  */
-const KNOWN_MISSES = new Set<string>();
-
 describe("independent district: share intervals", () => {
   for (const construct of USABLE) {
-    const test = KNOWN_MISSES.has(construct) ? it.fails : it;
-    test(`covers the true share of ${construct} at least 93% of the time (all runs pooled)`, () => {
+    it(`covers the true share of ${construct} at least 93% of the time (all runs pooled)`, () => {
       const tally = pooled.coverage.get(construct);
       expect(tally).toBeDefined();
       expect(tally!.total).toBeGreaterThan(0.9 * runs.length * STUDENTS);
@@ -146,12 +143,11 @@ describe("independent district: share intervals", () => {
 });
 
 describe("independent district: students", () => {
-  // Fails today: 53 of 95 planted students past the gate (0.558); over 10 seeds 67 of 119 (0.56).
-  // The ratio intervals cover the true ratio about 95% of the time here (so they are not too wide
-  // for their data), but students have about 370 windows in 11 sessions against the demo's 710 in
-  // 12, and the card's sampling error shifts every student's ratio the same way within a run (mean
-  // log(estimate/true) of planted students from −0.27 to +0.18 across seeds 1–8).
-  it.fails("finds at least 6 in 10 planted students (check-in for boredom)", () => {
+  // Measured at the default line 1.2 (seeds 1–8): 59 of 95 planted students past the gate (0.62).
+  // At the earlier line 1.3 it was 52 of 95 (0.55). Students here have about 370 windows in 11
+  // sessions, against the demo's 710 in 12, and the card's sampling error shifts every student's
+  // ratio the same way within a run.
+  it("finds at least 6 in 10 planted students (check-in for boredom)", () => {
     expect(planted.planted.total).toBeGreaterThanOrEqual(30);
     expect(planted.planted.found / planted.planted.gated).toBeGreaterThanOrEqual(0.6);
   });
@@ -168,11 +164,10 @@ describe("independent district: students", () => {
     expect(flagged / total).toBeLessThanOrEqual(0.01);
   });
 
-  // Fails today: 122 of 9000 rows (1.36%). Only 16 of them are at a true ratio below 1.2 (the test
-  // above passes at 0.26%): the rest are students who truly show 1.2 times their peers or more,
-  // since students differ in this null scenario (logit sd 0.3, by design). The figure as written
-  // counts them as false; whether it should is for the acceptance criterion to settle.
-  it.fails("in the null scenario, at most 1% of usable rows are check-in", () => {
+  // Measured: 81 of 9000 rows (0.90%), 26 of them at a true ratio below 1.2. Even with exchangeable
+  // students, the realized ratio of about 15% of rows is 1.3 or more (spells of a state are long and
+  // sessions differ), so most null check-ins are of students who did show more of the state.
+  it("in the null scenario, at most 1% of usable rows are check-in", () => {
     const { total, flagged } = sum(nulls, "checkIns");
     expect(total).toBe(NULL_SEEDS.length * STUDENTS * USABLE.length);
     expect(flagged / total).toBeLessThanOrEqual(0.01);
@@ -185,9 +180,9 @@ describe("independent district: units and classes", () => {
     for (const u of planted.plantedUnits) expect(u.status).toBe("review");
   });
 
-  // Missed: 6 of 8 planted runs mark the class (group line 1.25, with the card's variances widened
-  // for clustering), measured on seeds 1–8; the planted unit is found in all 8.
-  it.fails("marks the planted class elevated for off task in every planted run", () => {
+  // Missed in 2 of 8 runs until group ratios kept "r₂ or more" when the other classes' off-task
+  // share could not be told from zero (peer-ratio.ts): those two classes then had no ratio at all.
+  it("marks the planted class elevated for off task in every planted run", () => {
     expect(planted.plantedClasses).toHaveLength(PLANTED_SEEDS.length);
     for (const k of planted.plantedClasses) expect(k.status).toBe("elevated");
   });

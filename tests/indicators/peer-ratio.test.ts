@@ -61,6 +61,7 @@ describe("peer ratio: the peers' level too uncertain to divide by (Fieller's exc
     unitVariance: new Map([["u1", 0]]),
     correction: correction(0.2, 4e-5),
     critical: 2.5,
+    openEnded: true,
   };
 
   it("gives the upper root as the lower end and no upper end", () => {
@@ -88,6 +89,11 @@ describe("peer ratio: the peers' level too uncertain to divide by (Fieller's exc
     // The pivot is ±c at the lower end (the definition).
     const rho = r.ratio!.low;
     expectClose(Math.abs(a - rho * b) / Math.sqrt(va - 2 * rho * cov + rho * rho * vb), 2.5, { rel: 1e-9 });
+  });
+
+  it("gives no ratio there unless the caller asks for open ranges", () => {
+    expect(peerRatio({ ...input, openEnded: false }).ratio).toBeNull();
+    expect(peerRatio({ ...input, openEnded: undefined }).ratio).toBeNull();
   });
 
   it("gives no ratio when the numerator is not clearly above 0 either (the whole line)", () => {
