@@ -13,8 +13,10 @@
  * - recall: planted students (high boredom) with status check-in;
  * - false flags: check-in among rows whose true ratio to peers is below 1.2 in the concern
  *   direction (above 1/1.2 where higher is good), all runs;
- * - null check-in: check-in among all rows of the null runs (in brackets: of them, rows whose true
- *   ratio is below 1.2); the independent district's students differ in the null runs too;
+ * - null check-in: check-in among all rows of the null runs (nothing planted, students
+ *   exchangeable; in brackets: of them, rows whose true ratio is below 1.2);
+ * - for the independent district also its "varied" runs (nothing planted, students truly differ):
+ *   check-ins, false flags below a true ratio of 1.2, classes elevated (a line under the table);
  * - planted unit / class: runs in which the planted unit got `review` (gaming) and the planted
  *   class `elevated` (off task).
  */
@@ -45,7 +47,7 @@ function option(name: string, fallback: number): number {
   return value;
 }
 
-type Mode = "planted" | "null";
+type Mode = "planted" | "null" | "varied";
 type Simulation = "demo" | "independent";
 
 interface Written {
@@ -60,7 +62,8 @@ async function write(
   options: { students: number; seed: number; mode: Mode },
 ): Promise<Written> {
   if (sim === "independent") return writeQuarryDistrict(dir, options);
-  const paths = await writeDemoDistrict(dir, options);
+  if (options.mode === "varied") throw new Error("the demo district has no varied scenario");
+  const paths = await writeDemoDistrict(dir, { ...options, mode: options.mode });
   const truth = JSON.parse(readFileSync(paths.truth, "utf8")) as DemoTruth;
   return { windows: paths.windows, card: paths.card, truth };
 }
@@ -148,6 +151,28 @@ async function main(): Promise<void> {
         `(${nulls.units.reviews} in all); unit p-values below 0.05 in ${pct(nulls.units.below05, nulls.units.tested)} ` +
         `of ${nulls.units.tested} tests; classes elevated in ${nulls.classes.elevated} of ${nulls.classes.shown} shown class rows.`,
     );
+    if (sim === "independent") {
+      const varied = emptyFigures();
+      await runAll(sim, "varied", Array.from({ length: seeds }, (_, i) => i + 2001), students, varied);
+      let rowsAll = 0;
+      let flagged = 0;
+      for (const e of varied.checkIns.values()) {
+        rowsAll += e.rows;
+        flagged += e.flagged;
+      }
+      let low = 0;
+      let lowFlagged = 0;
+      for (const e of varied.lowRatio.values()) {
+        low += e.total;
+        lowFlagged += e.flagged;
+      }
+      notes.push(
+        `- ${sim}, varied runs (nothing planted, students differ: logit sd 0.3): check-in ${pct(flagged, rowsAll, 2)} of ${rowsAll} rows; ` +
+          `false flags at true ratio < 1.2 ${pct(lowFlagged, low, 2)} (${lowFlagged}/${low}); ` +
+          `${varied.units.runsWithReview} of ${varied.units.runs} runs with any unit review; ` +
+          `classes elevated in ${varied.classes.elevated} of ${varied.classes.shown} shown class rows.`,
+      );
+    }
   }
   process.stderr.write("\n");
   const table = `${[...lines, "", ...notes].join("\n")}\n`;
