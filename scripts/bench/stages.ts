@@ -200,7 +200,7 @@ async function printDirect(
               headerTemplate: '<div style="font-size:8px;width:100%;text-align:center;">header</div>',
               footerTemplate:
                 '<div style="font-size:8px;width:100%;text-align:center;">Page <span class="pageNumber"></span> of <span class="totalPages"></span></div>',
-              margin: { top: "18mm", bottom: "16mm", left: "14mm", right: "14mm" },
+              margin: { top: "12mm", bottom: "11mm", left: "10mm", right: "10mm" },
             },
       );
       rmSync(next.path);
