@@ -33,6 +33,7 @@ import {
   emptyFigures,
   type Figures,
   type KnownTruth,
+  pooledCounts,
   scoreRun,
   writeQuarryDistrict,
 } from "../tests/indicators/independent-district.js";
@@ -153,19 +154,15 @@ async function main(): Promise<void> {
     );
     if (sim === "independent") {
       const varied = emptyFigures();
-      await runAll(sim, "varied", Array.from({ length: seeds }, (_, i) => i + 2001), students, varied);
-      let rowsAll = 0;
-      let flagged = 0;
-      for (const e of varied.checkIns.values()) {
-        rowsAll += e.rows;
-        flagged += e.flagged;
-      }
-      let low = 0;
-      let lowFlagged = 0;
-      for (const e of varied.lowRatio.values()) {
-        low += e.total;
-        lowFlagged += e.flagged;
-      }
+      await runAll(
+        sim,
+        "varied",
+        Array.from({ length: seeds }, (_, i) => i + 2001),
+        students,
+        varied,
+      );
+      const { total: rowsAll, flagged } = pooledCounts(varied, "checkIns");
+      const { total: low, flagged: lowFlagged } = pooledCounts(varied, "lowRatio");
       notes.push(
         `- ${sim}, varied runs (nothing planted, students differ: logit sd 0.3): check-in ${pct(flagged, rowsAll, 2)} of ${rowsAll} rows; ` +
           `false flags at true ratio < 1.2 ${pct(lowFlagged, low, 2)} (${lowFlagged}/${low}); ` +

@@ -847,6 +847,24 @@ export function scoreRun(
   }
 }
 
+/** The counts of one tally summed over constructs: low-ratio rows (total, flagged) or all rows. */
+export function pooledCounts(f: Figures, key: "lowRatio" | "checkIns"): { total: number; flagged: number } {
+  let total = 0;
+  let flagged = 0;
+  if (key === "lowRatio") {
+    for (const e of f.lowRatio.values()) {
+      total += e.total;
+      flagged += e.flagged;
+    }
+  } else {
+    for (const e of f.checkIns.values()) {
+      total += e.rows;
+      flagged += e.flagged;
+    }
+  }
+  return { total, flagged };
+}
+
 /** Pooled rates for reporting. */
 export function rates(f: Figures): {
   coverage: { construct: string; coverage: number; n: number; width: number }[];

@@ -19,8 +19,8 @@ import { summarizeWindowsFile, type WindowsResult } from "../../src/ingest/windo
 import {
   binomialUpperCount,
   emptyFigures,
-  type Figures,
   type KnownTruth,
+  pooledCounts,
   type QuarryMode,
   type QuarryTruth,
   scoreRun,
@@ -60,23 +60,6 @@ function run(mode: QuarryMode, seed: number): Run {
     hasActivity: ingest.columns.hasActivity,
   });
   return { mode, dir, card, ingest, truth: district.truth, indicators };
-}
-
-function sum(f: Figures, key: "lowRatio" | "checkIns"): { total: number; flagged: number } {
-  let total = 0;
-  let flagged = 0;
-  if (key === "lowRatio") {
-    for (const e of f.lowRatio.values()) {
-      total += e.total;
-      flagged += e.flagged;
-    }
-  } else {
-    for (const e of f.checkIns.values()) {
-      total += e.rows;
-      flagged += e.flagged;
-    }
-  }
-  return { total, flagged };
 }
 
 beforeAll(() => {
@@ -153,13 +136,13 @@ describe("independent district: students", () => {
   });
 
   it("flags at most 1% of rows whose true ratio is below 1.2 in the concern direction", () => {
-    const { total, flagged } = sum(pooled, "lowRatio");
+    const { total, flagged } = pooledCounts(pooled, "lowRatio");
     expect(total).toBeGreaterThan(5000);
     expect(flagged / total).toBeLessThanOrEqual(0.01);
   });
 
   it("in the null scenario, flags at most 1% of rows whose true ratio is below 1.2", () => {
-    const { total, flagged } = sum(nulls, "lowRatio");
+    const { total, flagged } = pooledCounts(nulls, "lowRatio");
     expect(total).toBeGreaterThan(3000);
     expect(flagged / total).toBeLessThanOrEqual(0.01);
   });
@@ -168,7 +151,7 @@ describe("independent district: students", () => {
   // students, the realized ratio of about 15% of rows is 1.3 or more (spells of a state are long and
   // sessions differ), so most null check-ins are of students who did show more of the state.
   it("in the null scenario, at most 1% of usable rows are check-in", () => {
-    const { total, flagged } = sum(nulls, "checkIns");
+    const { total, flagged } = pooledCounts(nulls, "checkIns");
     expect(total).toBe(NULL_SEEDS.length * STUDENTS * USABLE.length);
     expect(flagged / total).toBeLessThanOrEqual(0.01);
   });

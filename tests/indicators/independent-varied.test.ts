@@ -21,6 +21,7 @@ import { summarizeWindowsFile } from "../../src/ingest/windows.js";
 import {
   binomialUpperCount,
   emptyFigures,
+  pooledCounts,
   type QuarryTruth,
   scoreRun,
   writeQuarryDistrict,
@@ -92,24 +93,14 @@ describe("independent district, students who differ with nothing planted", () =>
   });
 
   it("flags at most 1% of rows whose true ratio is below 1.2 in the concern direction", () => {
-    let total = 0;
-    let flagged = 0;
-    for (const e of figures.lowRatio.values()) {
-      total += e.total;
-      flagged += e.flagged;
-    }
+    const { total, flagged } = pooledCounts(figures, "lowRatio");
     expect(total).toBeGreaterThan(3000);
     expect(flagged / total).toBeLessThanOrEqual(0.01);
   });
 
   it("suggests check-ins far more often where the true ratio is 1.5 or more than below 1.2", () => {
     const high = checkInRate(1.5);
-    let low = 0;
-    let lowFlagged = 0;
-    for (const e of figures.lowRatio.values()) {
-      low += e.total;
-      lowFlagged += e.flagged;
-    }
+    const { total: low, flagged: lowFlagged } = pooledCounts(figures, "lowRatio");
     expect(high.rows).toBeGreaterThan(300);
     // At least ten times the rate, and at least 1 in 20 of such rows.
     expect(high.flagged / high.rows).toBeGreaterThanOrEqual(0.05);
