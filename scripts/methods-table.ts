@@ -9,7 +9,8 @@
  *
  * Figures, per usable construct, pooled over seeds:
  * - coverage: share of students past the evidence gate whose 95% share interval holds their true
- *   (realized) share, all runs; mean width of those intervals;
+ *   (realized) share, all runs; mean width of those intervals; ratio coverage: the same for the
+ *   range of the ratio to peers, over rows that have one;
  * - recall: planted students (high boredom) with status check-in;
  * - false flags: check-in among rows whose true ratio to peers is below 1.2 in the concern
  *   direction (above 1/1.2 where higher is good), all runs;
@@ -103,6 +104,7 @@ function rows(sim: Simulation, planted: Figures, nulls: Figures, all: Figures): 
   const out: string[] = [];
   for (const [construct, c] of [...all.coverage].sort(([a], [b]) => (a < b ? -1 : 1))) {
     const low = all.lowRatio.get(construct) ?? { total: 0, flagged: 0 };
+    const rc = all.ratioCoverage.get(construct) ?? { covered: 0, total: 0, width: 0 };
     const n = nulls.checkIns.get(construct) ?? { rows: 0, gated: 0, flagged: 0 };
     const nLow = nulls.lowRatio.get(construct) ?? { total: 0, flagged: 0 };
     const isStudent = planted.studentConstructs.has(construct);
@@ -118,6 +120,7 @@ function rows(sim: Simulation, planted: Figures, nulls: Figures, all: Figures): 
       .join("; ");
     out.push(
       `| ${sim} | ${construct} | ${(c.covered / c.total).toFixed(3)} (${c.total}) | ${(c.width / c.total).toFixed(3)} | ` +
+        `${rc.total > 0 ? `${(rc.covered / rc.total).toFixed(3)} (${rc.total})` : "—"} | ` +
         `${isStudent ? `${pct(planted.planted.found, planted.planted.gated, 0)} (${planted.planted.found}/${planted.planted.gated})` : "—"} | ` +
         `${pct(low.flagged, low.total, 2)} (${low.flagged}/${low.total}) | ` +
         `${pct(n.flagged, n.rows, 2)} (${n.flagged}/${n.rows}; ${nLow.flagged} at true ratio < 1.2) | ${found || "—"} |`,
@@ -134,8 +137,8 @@ async function main(): Promise<void> {
   const lines = [
     `Simulated districts of ${students} students, ${seeds} seeds planted and ${seeds} null each, default settings.`,
     "",
-    "| simulation | construct | coverage (n) | mean width | recall | false flags, true ratio < 1.2 | null check-in | planted found |",
-    "| --- | --- | --- | --- | --- | --- | --- | --- |",
+    "| simulation | construct | coverage (n) | mean width | ratio coverage (n) | recall | false flags, true ratio < 1.2 | null check-in | planted found |",
+    "| --- | --- | --- | --- | --- | --- | --- | --- | --- |",
   ];
   const notes: string[] = [];
   for (const sim of ["demo", "independent"] as const) {
@@ -186,15 +189,17 @@ async function main(): Promise<void> {
   }
 }
 
-/** Adds the counts of `from` into `into` (coverage, low-ratio and check-in tallies). */
+/** Adds the counts of `from` into `into` (share and ratio coverage, low-ratio tallies). */
 function mergeInto(into: Figures, from: Figures): void {
-  for (const [k, e] of from.coverage) {
-    const t = into.coverage.get(k) ?? { covered: 0, total: 0, width: 0 };
-    into.coverage.set(k, {
-      covered: t.covered + e.covered,
-      total: t.total + e.total,
-      width: t.width + e.width,
-    });
+  for (const key of ["coverage", "ratioCoverage"] as const) {
+    for (const [k, e] of from[key]) {
+      const t = into[key].get(k) ?? { covered: 0, total: 0, width: 0 };
+      into[key].set(k, {
+        covered: t.covered + e.covered,
+        total: t.total + e.total,
+        width: t.width + e.width,
+      });
+    }
   }
   for (const [k, e] of from.lowRatio) {
     const t = into.lowRatio.get(k) ?? { total: 0, flagged: 0 };

@@ -731,6 +731,8 @@ export interface CoverageTally {
 export interface Figures {
   /** Per usable construct: students past the evidence gate whose interval holds the true share. */
   readonly coverage: Map<string, CoverageTally>;
+  /** The same for the ratio to peers, over rows with a ratio (width: of the log ratio, bounded rows). */
+  readonly ratioCoverage: Map<string, CoverageTally>;
   /** Planted student × construct rows: past the gate, and of those, check-in. */
   readonly planted: { gated: number; total: number; found: number };
   /** The constructs in which students were planted. */
@@ -751,6 +753,7 @@ export interface Figures {
 export function emptyFigures(): Figures {
   return {
     coverage: new Map(),
+    ratioCoverage: new Map(),
     planted: { gated: 0, total: 0, found: 0 },
     studentConstructs: new Set(),
     lowRatio: new Map(),
@@ -810,6 +813,13 @@ export function scoreRun(
       if (share >= row.share.low - 1e-9 && share <= row.share.high + 1e-9) e.covered++;
     }
     const ratio = t.ratio[c];
+    if (row.ratio && ratio !== null && ratio !== undefined) {
+      const e = bump(into.ratioCoverage, row.construct, () => ({ covered: 0, total: 0, width: 0 }));
+      e.total++;
+      if (row.ratio.low > 0 && Number.isFinite(row.ratio.high))
+        e.width += Math.log(row.ratio.high / row.ratio.low);
+      if (ratio >= row.ratio.low - 1e-9 && ratio <= row.ratio.high + 1e-9) e.covered++;
+    }
     if (ratio !== null && ratio !== undefined) {
       const low = good.has(row.construct) ? ratio > 1 / TRUE_LINE : ratio < TRUE_LINE;
       if (low) {

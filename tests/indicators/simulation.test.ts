@@ -113,6 +113,19 @@ describe("demo district: share intervals", () => {
   });
 });
 
+describe("demo district: ratio ranges", () => {
+  // Not an acceptance figure of its own, but a check-in rests on the ratio's range.
+  it.each(USABLE)(
+    "covers the true ratio to peers of %s at least 93% of the time (all runs pooled)",
+    (construct) => {
+      const tally = pooled.ratioCoverage.get(construct);
+      expect(tally).toBeDefined();
+      expect(tally!.total).toBeGreaterThan(0.3 * runs.length * STUDENTS);
+      expect(tally!.covered / tally!.total).toBeGreaterThanOrEqual(0.93);
+    },
+  );
+});
+
 describe("demo district: students", () => {
   it("finds at least 6 in 10 planted students (check-in for boredom)", () => {
     expect(planted.planted.total).toBeGreaterThanOrEqual(30);
