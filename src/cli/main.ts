@@ -15,7 +15,7 @@ import { EXIT, ReportError, UsageError } from "../errors.js";
 import { formatQuality } from "../ingest/quality-report.js";
 import { msg } from "../messages.js";
 import { checkOutputDir, writeFileAtomically } from "../output/atomic.js";
-import { type InputPaths, loadInputs, requireSessions } from "../pipeline/inputs.js";
+import { type InputPaths, requireSessions, streamInputs } from "../pipeline/inputs.js";
 import { sqlCommand } from "../sql/sql-command.js";
 import { sessionsCsv } from "../summaries/sessions-csv.js";
 import { VERSION } from "../version.js";
@@ -165,7 +165,7 @@ export async function run(argv: string[], effects: Effects): Promise<number> {
   }
   if (command === "summarize") {
     const out = need(values, "out", command);
-    const inputs = loadInputs(
+    const inputs = streamInputs(
       {
         windows: need(values, "windows", command),
         card: need(values, "card", command),
@@ -179,7 +179,7 @@ export async function run(argv: string[], effects: Effects): Promise<number> {
     for (const line of formatQuality(inputs.quality)) effects.err(line);
     effects.out(`wrote ${resolve(out)}`);
   } else if (command === "check") {
-    const inputs = loadInputs(inputPaths(values, command), effects);
+    const inputs = streamInputs(inputPaths(values, command), effects);
     for (const line of formatQuality(inputs.quality)) effects.out(line);
     if (inputs.summaries.length > 0) return EXIT.ok;
     // Exit 1 needs a sentence on stderr too: the account alone (on stdout) does not say it failed.

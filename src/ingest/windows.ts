@@ -30,7 +30,8 @@ import type { Card, Settings } from "../config/types.js";
 import { InputError } from "../errors.js";
 import { msg, type RejectReason } from "../messages.js";
 import { ConstructPlan, type PartIds, SessionAccumulator } from "../summaries/session-accumulator.js";
-import { compareSummaries, type SessionSummary } from "../summaries/types.js";
+import { SummaryStore } from "../summaries/summary-store.js";
+import type { SessionSummary } from "../summaries/types.js";
 import { ByteKeyTable } from "./byte-key-table.js";
 import {
   findField,
@@ -67,6 +68,9 @@ export interface ColumnAccount {
 
 export interface WindowsResult {
   readonly file: string;
+  /** The summaries in columns, in the order of compareSummaries (summarize writes them from here). */
+  readonly store: SummaryStore;
+  /** The same as objects, made when first asked for. */
   readonly summaries: SessionSummary[];
   readonly account: RowAccount;
   readonly columns: ColumnAccount;
@@ -281,7 +285,8 @@ class WindowsIngest {
   /** Per sitting: the part of its last row (-1 before any). */
   private lastPart = new Int32Array(1024).fill(-1);
   private withoutEstimate = new Int32Array(1024);
-  private readonly done: (SessionSummary[] | undefined)[] = [];
+  /** Summaries of closed sittings (a sitting kept again replaces its rows). */
+  private store: SummaryStore;
   private readonly open = new Map<number, SessionAccumulator>();
   /** Per sitting: when it was last entered (a count of entries), to close the least recent. */
   private lastSeen = new Float64Array(1024);
@@ -307,6 +312,7 @@ class WindowsIngest {
     this.account = new RowAccount(this.file, settings);
     this.maxBytes = settings.maxFieldChars * 4;
     this.maxRecordBytes = Math.max(1 << 20, this.maxBytes * 64);
+    this.store = new SummaryStore([], this.students, this.sessions, this.partIds);
   }
 
   // ---------------------------------------------------------------------------------------------
@@ -380,6 +386,7 @@ class WindowsIngest {
     this.layout = built.layout;
     this.plan = new ConstructPlan(this.card, built.present);
     this.values = new Float64Array(this.plan.keys.length);
+    this.store = new SummaryStore(this.plan.keys, this.students, this.sessions, this.partIds);
     this.starts = new Int32Array(built.layout.fieldCount);
     this.ends = new Int32Array(built.layout.fieldCount);
   }
@@ -736,7 +743,7 @@ class WindowsIngest {
   }
 
   private keep(s: number, acc: SessionAccumulator): void {
-    this.done[s] = acc.finish();
+    acc.finishInto(this.store, s);
     this.partCount[s] = acc.parts.length;
     this.withoutEstimate[s] = acc.rowsWithoutEstimate;
   }
@@ -755,7 +762,7 @@ class WindowsIngest {
       this.open.delete(s);
       this.pool.push(acc);
     }
-    this.done[s] = undefined;
+    this.store.drop(s);
     if (s === this.current) this.currentAcc = null;
     if (this.spill === null) {
       const dir = mkdtempSync(join(tmpdir(), "engagement-report-replay-"));
@@ -947,34 +954,23 @@ class WindowsIngest {
   result(): WindowsResult {
     const plan = this.plan!;
     const n = this.sittingKeys.size;
-    const constructIndex = new Map(plan.keys.map((key, i) => [key, i]));
-    // Sittings by student and session, then each sitting's rows in order: the same order as sorting
-    // every summary with compareSummaries (two sittings never share student and session), at the
-    // cost of sorting sittings only.
-    const byIds = Array.from({ length: n }, (_, s) => s);
-    const cmp = (a: string, b: string): number => (a < b ? -1 : a > b ? 1 : 0);
-    byIds.sort(
-      (a, b) => cmp(this.students[a]!, this.students[b]!) || cmp(this.sessions[a]!, this.sessions[b]!),
-    );
-    const order = compareSummaries(constructIndex);
-    const summaries: SessionSummary[] = [];
-    const estimated = new Float64Array(plan.keys.length);
     let spanning = 0;
     let rowsWithoutEstimate = 0;
-    for (const s of byIds) {
+    for (let s = 0; s < n; s++) {
       if (this.partCount[s]! > 1) spanning++;
       rowsWithoutEstimate += this.withoutEstimate[s]!;
-      const rows = this.done[s] ?? [];
-      rows.sort(order);
-      for (const r of rows) {
-        summaries.push(r);
-        estimated[constructIndex.get(r.construct)!]! += r.windows;
-      }
     }
+    const estimated = this.store.windowsByConstruct();
+    const store = this.store;
+    let summaries: SessionSummary[] | null = null;
     const lay = this.layout!;
     return {
       file: this.file,
-      summaries,
+      store,
+      get summaries() {
+        summaries ??= store.toArray();
+        return summaries;
+      },
       account: this.account,
       columns: lay.columns,
       rowsWithoutEstimate,
