@@ -23,8 +23,8 @@
  * resolved without regard to the order they came in, and reduced exactly as in pass 1. Sorted input
  * never replays and writes nothing to disk.
  */
-import { mkdtempSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { closeSync, fstatSync, mkdtempSync, openSync, readSync, statSync } from "node:fs";
+import { availableParallelism, tmpdir } from "node:os";
 import { basename, join } from "node:path";
 import type { Card, Settings } from "../config/types.js";
 import { InputError } from "../errors.js";
@@ -35,15 +35,17 @@ import type { SessionSummary } from "../summaries/types.js";
 import { ByteKeyTable } from "./byte-key-table.js";
 import {
   findField,
+  type ReadEnd,
   type RecordProblem,
   type RecordSink,
   type RecordView,
   readRecordsFromFile,
 } from "./csv-records.js";
 import { EMPTY, parseNumber } from "./number.js";
-import { location, RowAccount } from "./quality.js";
+import { type Example, location, RowAccount } from "./quality.js";
 import { SpillBuckets } from "./replay-spill.js";
 import { parseTimestamp, TimestampReader } from "./timestamp.js";
+import { laterPart, reduceLaterPart } from "./windows-thread.js";
 
 const REQUIRED = ["student_id", "class_id", "unit_id", "session_id", "window_start"] as const;
 const OPTIONAL = ["school_id", "activity_id"] as const;
@@ -96,7 +98,7 @@ const SITTING_SLOTS = 0b000011;
 const PART_SLOTS = 0b111100;
 const ALL_SLOTS = 0b111111;
 
-interface Layout {
+export interface Layout {
   readonly fieldCount: number;
   /** Column of each id slot (school and activity -1 when absent). */
   readonly ids: Int32Array;
@@ -232,38 +234,263 @@ const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
 /** Thrown to end the second pass once it has passed the last line it needs. */
 const STOP = new Error("stop");
 
+export interface WindowsOptions {
+  /** Sees every byte of the file, in order (to hash it in the same pass); keeps the reading in this thread. */
+  readonly onBytes?: ((bytes: Buffer) => void) | undefined;
+  /**
+   * 2 to have a worker thread parse the later part of the file while this thread reads the first
+   * (windows-thread.ts); 1 for one thread. Default: defaultThreads.
+   */
+  readonly threads?: number | undefined;
+  /** Where the later part starts, as a share of the file's bytes (then moved to the next line). */
+  readonly splitShare?: number | undefined;
+  /** For tests: the byte offset of the later part (a line start), and its parser run in this thread. */
+  readonly splitAt?: number | undefined;
+  readonly laterInThisThread?: boolean | undefined;
+}
+
+/**
+ * The first part's share of the bytes. This thread parses and reduces the first part, then reduces
+ * the later part's rows, which costs about a third of parsing them: a first part of 30 % keeps both
+ * threads busy to about the same time (bench/RESULTS.md).
+ */
+const SPLIT_SHARE = 0.3;
+
+/** Files from this size on are read in a worker when two cores are free: below it, starting one does not pay. */
+const THREAD_MIN_BYTES = 32 * 1024 * 1024;
+
+/** 2 for a file of at least THREAD_MIN_BYTES on a machine with two cores or more, else 1. */
+export function defaultThreads(path: string): number {
+  let size = 0;
+  try {
+    size = statSync(path).size;
+  } catch {
+    return 1; // the reader gives the message
+  }
+  return size >= THREAD_MIN_BYTES && availableParallelism() >= 2 ? 2 : 1;
+}
+
 export function summarizeWindowsFile(
   path: string,
   card: Card,
   settings: Settings,
-  onBytes?: (bytes: Buffer) => void,
+  options: WindowsOptions | ((bytes: Buffer) => void) = {},
 ): WindowsResult {
-  const ingest = new WindowsIngest(path, card, settings);
+  const opts: WindowsOptions = typeof options === "function" ? { onBytes: options } : options;
+  const threads = opts.onBytes ? 1 : (opts.threads ?? defaultThreads(path));
+  const split = threads > 1 ? (opts.splitAt ?? lineStartAfter(path, opts.splitShare ?? SPLIT_SHARE)) : -1;
+  if (split > 0) {
+    const reducer = new WindowsReducer(path, card, settings);
+    try {
+      if (readSplit(path, card, settings, reducer, split, opts.laterInThisThread === true)) {
+        reducer.replay();
+        return reducer.result();
+      }
+    } finally {
+      reducer.spill?.remove();
+    }
+  }
+  const reducer = new WindowsReducer(path, card, settings);
   try {
-    ingest.read(onBytes); // pass 1
-    ingest.closeAll();
-    ingest.readAgain(); // the rows of marked sittings from before their mark
-    ingest.replay();
-    return ingest.result();
+    readHere(path, card, settings, reducer, opts.onBytes);
+    reducer.replay();
+    return reducer.result();
   } finally {
-    ingest.spill?.remove();
+    reducer.spill?.remove();
   }
 }
 
-class WindowsIngest {
+/** The offset just after the first line feed at or after `share` of the file's bytes; -1 when none. */
+function lineStartAfter(path: string, share: number): number {
+  let fd: number;
+  try {
+    fd = openSync(path, "r");
+  } catch {
+    return -1; // the reader gives the message
+  }
+  try {
+    const size = fstatSync(fd).size;
+    const buf = Buffer.allocUnsafe(1 << 16);
+    for (let at = Math.floor(size * share); at < size; at += buf.length) {
+      const n = readSync(fd, buf, 0, buf.length, at);
+      const nl = buf.subarray(0, n).indexOf(10);
+      if (nl >= 0) return at + nl + 1 < size ? at + nl + 1 : -1;
+    }
+    return -1;
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/**
+ * Both passes with the later part parsed by another parser (windows-thread.ts). False when a record
+ * crosses the split (a quoted field with a line break in it), which only reading in one go gets right.
+ */
+function readSplit(
+  path: string,
+  card: Card,
+  settings: Settings,
+  reducer: WindowsReducer,
+  split: number,
+  laterHere: boolean,
+): boolean {
+  const later = laterPart(
+    path,
+    card,
+    settings,
+    split,
+    laterHere,
+    (out) => new WindowsParser(path, card, settings, out, { start: split }),
+  );
+  try {
+    const parser = new WindowsParser(path, card, settings, reducer, { until: split });
+    reducer.account = parser.account;
+    const end = parser.read();
+    if (end.offset !== split) return false;
+    reduceLaterPart(later, parser, reducer, end.line - 1);
+    if (reducer.account.rowsRead === 0) throw new InputError(msg.headerOnly(path, "windows file"));
+    reducer.closeAll();
+    if (reducer.lastMark > 0) {
+      reducer.pass = 1;
+      parser.readAgain(reducer.markLine, reducer.lastMark);
+    }
+    return true;
+  } finally {
+    later.close();
+  }
+}
+
+/** Both passes in this thread: the parser hands each row straight to the reducer. */
+function readHere(
+  path: string,
+  card: Card,
+  settings: Settings,
+  reducer: WindowsReducer,
+  onBytes?: (bytes: Buffer) => void,
+): void {
+  const parser = new WindowsParser(path, card, settings, reducer);
+  reducer.account = parser.account;
+  parser.read(onBytes); // pass 1
+  reducer.closeAll();
+  // The rows of marked sittings from before their mark.
+  if (reducer.lastMark > 0) {
+    reducer.pass = 1;
+    parser.readAgain(reducer.markLine, reducer.lastMark);
+  }
+}
+
+/** Where the parser's rows go: the reducer, or a worker's batches to it. */
+export interface RowSink {
+  header(layout: Layout, present: readonly boolean[]): void;
+  /** A new sitting, numbered in order of first appearance. */
+  sitting(s: number, studentId: string, sessionId: string): void;
+  /** A new part (class, school, unit, activity), numbered in order of first appearance. */
+  part(id: number, ids: PartIds): void;
+  /**
+   * A valid row of sitting s and part `part`; `flags` say whether the sitting (ENTERED) or the
+   * part (NEW_PART) differ from the previous row's. `values` is reused for the next row.
+   */
+  row(
+    s: number,
+    part: number,
+    time: number,
+    offset: number,
+    line: number,
+    values: Float64Array,
+    flags: number,
+  ): void;
+}
+
+/** A rejected row as the parser found it, its line counted in the part of the file it read. */
+export interface RawReject {
+  readonly reason: RejectReason;
+  readonly line: number;
+  readonly column: number | undefined;
+  readonly name: string | undefined;
+  readonly value: string | undefined;
+  readonly detail: string | undefined;
+}
+
+/** A later part's rejections: the first examples of each reason, in line order, and each reason's count. */
+export interface DeferredRejects {
+  readonly examples: RawReject[];
+  readonly counts: [RejectReason, number][];
+}
+
+function deferReject(d: DeferredRejects, raw: RawReject, perReason: number): void {
+  let entry = d.counts.find((c) => c[0] === raw.reason);
+  if (!entry) {
+    entry = [raw.reason, 0];
+    d.counts.push(entry);
+  }
+  // In strict mode only the first rejection matters; keep one example even with examples_per_reason 0.
+  if (entry[1] < Math.max(1, perReason)) d.examples.push(raw);
+  entry[1]++;
+}
+
+/** The account's example for a rejection, its line moved on by `lineBase`. */
+export function rejectExample(file: string, raw: RawReject, lineBase: number): Example {
+  const { name, value, detail } = raw;
+  return {
+    at: location(file, raw.line + lineBase, raw.column),
+    ...(name === undefined ? {} : { column: name }),
+    ...(value === undefined ? {} : { value: value.length > 80 ? `${value.slice(0, 77)}...` : value }),
+    ...(detail === undefined ? {} : { detail }),
+  };
+}
+
+/**
+ * Counts a later part's rejections in the account (after the rows before them), in line order, so
+ * that in strict mode the first of them stops the run, as it would reading in one go.
+ */
+export function countDeferred(account: RowAccount, d: DeferredRejects, lineBase: number): void {
+  const shown = new Map<RejectReason, number>();
+  for (const raw of d.examples) {
+    account.reject(raw.reason, rejectExample(account.file, raw, lineBase));
+    shown.set(raw.reason, (shown.get(raw.reason) ?? 0) + 1);
+  }
+  for (const [reason, count] of d.counts) account.addRejected(reason, count - (shown.get(reason) ?? 0));
+}
+
+/** Field columns of ids laid end to end (adoptSitting, adoptPart). */
+const ADOPT_COLS = Int32Array.from([0, 1, 2, 3]);
+
+function idBytes(ids: readonly string[]): { buf: Buffer; starts: Int32Array; ends: Int32Array } {
+  const parts = ids.map((id) => Buffer.from(id, "utf8"));
+  const starts = new Int32Array(ids.length);
+  const ends = new Int32Array(ids.length);
+  let at = 0;
+  parts.forEach((b, i) => {
+    starts[i] = at;
+    at += b.length;
+    ends[i] = at;
+  });
+  return { buf: Buffer.concat(parts), starts, ends };
+}
+
+/** RowSink.row flags. */
+export const ENTERED = 1;
+export const NEW_PART = 2;
+
+/**
+ * Reading and checking: every row is validated here, rejections counted, ids looked up and
+ * numbered; valid rows go to a RowSink. Holds nothing per sitting but its ids' bytes and the part
+ * of its last row, so that it can run in a worker apart from the reducer.
+ */
+export class WindowsParser {
   readonly file: string;
   readonly account: RowAccount;
   private readonly maxBytes: number;
   private readonly maxRecordBytes: number;
   private layout: Layout | null = null;
-  private plan: ConstructPlan | null = null;
   private values = new Float64Array(0);
   private readonly timeOut = { offsetMinutes: 0 };
   private sawHeader = false;
   /** 0 in pass 1, 1 when reading again. */
   private pass = 0;
-  /** In the second pass: the line at which to stop. */
+  /** In the second pass: the line at which to stop, and per sitting the line of its mark (0: none). */
   private stopLine = 0;
+  private markLine: Int32Array = new Int32Array(0);
   /** Field ranges of the row read by the fast path. */
   private starts = new Int32Array(0);
   private ends = new Int32Array(0);
@@ -273,73 +500,122 @@ class WindowsIngest {
   // Sittings by number (order of first appearance) and parts (global numbers).
   private readonly sittingKeys = new ByteKeyTable(2);
   private readonly partKeys = new ByteKeyTable(4);
-  private readonly partIds: PartIds[] = [];
-  private readonly students: string[] = [];
-  private readonly sessions: string[] = [];
-  private state = new Int8Array(1024);
-  /** Rows that passed validation, per sitting. */
-  private rows = new Int32Array(1024);
-  /** Per sitting marked for replay: the line of the mark when rows before it must be read again, else 0. */
-  private markLine = new Int32Array(1024);
-  private partCount = new Int32Array(1024);
   /** Per sitting: the part of its last row (-1 before any). */
   private lastPart = new Int32Array(1024).fill(-1);
-  private withoutEstimate = new Int32Array(1024);
-  /** Summaries of closed sittings (a sitting kept again replaces its rows). */
-  private store: SummaryStore;
-  private readonly open = new Map<number, SessionAccumulator>();
-  /** Per sitting: when it was last entered (a count of entries), to close the least recent. */
-  private lastSeen = new Float64Array(1024);
-  private entries = 0;
-  /** Accumulators of closed sittings, to serve new ones. */
-  private readonly pool: SessionAccumulator[] = [];
-  private replayed = 0;
-  private lastMark = 0;
-  spill: SpillBuckets | null = null;
-
-  /** The current row's sitting, its accumulator (open sittings, pass 1), part, and part in the sitting. */
+  /** The current row's sitting and part. */
   private current = -1;
-  private currentAcc: SessionAccumulator | null = null;
   private currentPart = -1;
-  private localPart = -1;
+  /** Pass 1 reads the bytes from `start` (a line start) and begins no record from `until` on. */
+  private readonly start: number;
+  private until: number;
+  /**
+   * Reading a later part of the file (start > 0): its lines are counted from 1 there, so its
+   * rejections are kept with those lines, to be counted with the right lines by whoever knows them.
+   */
+  readonly deferred: DeferredRejects | null;
 
   constructor(
     private readonly path: string,
     private readonly card: Card,
     private readonly settings: Settings,
+    private readonly out: RowSink,
+    range: { start?: number; until?: number } = {},
   ) {
     this.file = basename(path);
     this.account = new RowAccount(this.file, settings);
     this.maxBytes = settings.maxFieldChars * 4;
     this.maxRecordBytes = Math.max(1 << 20, this.maxBytes * 64);
-    this.store = new SummaryStore([], this.students, this.sessions, this.partIds);
+    this.start = range.start ?? 0;
+    this.until = range.until ?? Number.POSITIVE_INFINITY;
+    this.deferred = this.start > 0 ? { examples: [], counts: [] } : null;
+  }
+
+  /**
+   * The sitting numbered s by the parser of another part of the file, by its ids: its number here,
+   * taken and announced (RowSink.sitting) when new, as if its row had been read here.
+   */
+  adoptSitting(studentId: string, sessionId: string): number {
+    const { buf, starts, ends } = idBytes([studentId, sessionId]);
+    const cols = ADOPT_COLS.subarray(0, 2);
+    let s = this.sittingKeys.find(buf, starts, ends, cols);
+    if (s >= 0) return s;
+    s = this.sittingKeys.add(buf, starts, ends, cols);
+    this.growLastPart(s);
+    this.out.sitting(s, studentId, sessionId);
+    return s;
+  }
+
+  /** adoptSitting for a part. */
+  adoptPart(ids: PartIds): number {
+    const { buf, starts, ends } = idBytes([ids.classId, ids.schoolId, ids.unitId, ids.activityId]);
+    let part = this.partKeys.find(buf, starts, ends, ADOPT_COLS);
+    if (part >= 0) return part;
+    part = this.partKeys.add(buf, starts, ends, ADOPT_COLS);
+    this.out.part(part, ids);
+    return part;
+  }
+
+  private growLastPart(s: number): void {
+    if (s < this.lastPart.length) return;
+    const lastPart = new Int32Array(Math.max(s + 1, this.lastPart.length * 2)).fill(-1);
+    lastPart.set(this.lastPart);
+    this.lastPart = lastPart;
+  }
+
+  /** Second pass: the rows of marked sittings before their marks (markLine, by sitting), up to stopLine. */
+  readAgain(markLine: Int32Array, stopLine: number): void {
+    if (this.start > 0) throw new Error("the second pass reads the whole file, from its first parser");
+    this.pass = 1;
+    this.markLine = markLine;
+    this.stopLine = stopLine;
+    this.until = Number.POSITIVE_INFINITY;
+    this.read();
   }
 
   // ---------------------------------------------------------------------------------------------
   // Reading.
 
-  read(onBytes?: (bytes: Buffer) => void): void {
+  /**
+   * Reads the file (pass 1: from `start` up to `until`; the second pass: from the top). Returns
+   * where reading stopped. A parser of a later part reads the header first, from the top of the file.
+   */
+  read(onBytes?: (bytes: Buffer) => void): ReadEnd {
     this.sawHeader = false;
     this.current = -1;
-    this.currentAcc = null;
     this.currentPart = -1;
     this.prev.valid = false;
+    const later = this.pass === 0 && this.start > 0;
+    if (later) {
+      this.headerOnly = true;
+      this.readRange({});
+      this.headerOnly = false;
+    }
+    const end = this.readRange({
+      ...(this.pass === 0 && onBytes ? { onBytes } : {}),
+      ...(this.pass === 0 ? { start: this.start, until: this.until } : {}),
+    });
+    if (this.pass > 0) return end;
+    if (!this.sawHeader) throw new InputError(msg.emptyFile(this.path, "windows file"));
+    // A part of the file may hold no row: the caller checks the whole.
+    const whole = this.start === 0 && this.until === Number.POSITIVE_INFINITY;
+    if (whole && this.account.rowsRead === 0) throw new InputError(msg.headerOnly(this.path, "windows file"));
+    return end;
+  }
+
+  /** Pass 1 over a part of the file, or the header alone: no row yet read. */
+  private headerOnly = false;
+
+  private readRange(range: { onBytes?: (bytes: Buffer) => void; start?: number; until?: number }): ReadEnd {
     try {
-      readRecordsFromFile(this.path, this.sink(), {
-        maxRecordBytes: this.maxRecordBytes,
-        ...(this.pass === 0 && onBytes ? { onBytes } : {}),
-      });
+      return readRecordsFromFile(this.path, this.sink(), { maxRecordBytes: this.maxRecordBytes, ...range });
     } catch (error) {
-      if (error === STOP) return;
+      if (error === STOP) return { offset: -1, line: -1 };
       const code = (error as { code?: string }).code;
       if (code !== undefined && typeof code === "string" && code.startsWith("E")) {
         throw new InputError(msg.cannotRead(this.path, "windows file", error));
       }
       throw error;
     }
-    if (this.pass > 0) return;
-    if (!this.sawHeader) throw new InputError(msg.emptyFile(this.path, "windows file"));
-    if (this.account.rowsRead === 0) throw new InputError(msg.headerOnly(this.path, "windows file"));
   }
 
   private sink(): RecordSink {
@@ -357,6 +633,7 @@ class WindowsIngest {
           this.sawHeader = true;
           if (this.pass > 0) return;
           this.header(view);
+          if (this.headerOnly) throw STOP;
           return;
         }
         if (this.pass > 0 && view.line >= this.stopLine) throw STOP;
@@ -375,7 +652,7 @@ class WindowsIngest {
         this.reject(problem.kind, problem.line, problem.column, name, problem.value, detail);
       },
       blank: () => {
-        if (this.pass === 0) this.account.blankLines++;
+        if (this.pass === 0 && !this.headerOnly) this.account.blankLines++;
       },
     };
   }
@@ -384,11 +661,10 @@ class WindowsIngest {
     const header = Array.from({ length: view.count }, (_, i) => view.text(i));
     const built = layoutOf(this.file, header, this.card);
     this.layout = built.layout;
-    this.plan = new ConstructPlan(this.card, built.present);
-    this.values = new Float64Array(this.plan.keys.length);
-    this.store = new SummaryStore(this.plan.keys, this.students, this.sessions, this.partIds);
+    this.values = new Float64Array(built.layout.constructCols.length);
     this.starts = new Int32Array(built.layout.fieldCount);
     this.ends = new Int32Array(built.layout.fieldCount);
+    this.out.header(built.layout, built.present);
   }
 
   private reject(
@@ -400,12 +676,9 @@ class WindowsIngest {
     detail?: string,
   ): void {
     if (this.pass > 0) return; // counted in pass 1
-    this.account.reject(reason, {
-      at: location(this.file, line, column),
-      ...(name === undefined ? {} : { column: name }),
-      ...(value === undefined ? {} : { value: value.length > 80 ? `${value.slice(0, 77)}...` : value }),
-      ...(detail === undefined ? {} : { detail }),
-    });
+    const raw: RawReject = { reason, line, column, name, value, detail };
+    if (this.deferred) deferReject(this.deferred, raw, this.settings.examplesPerReason);
+    else this.account.reject(reason, rejectExample(this.file, raw, 0));
   }
 
   /**
@@ -551,7 +824,7 @@ class WindowsIngest {
       p = q + 1;
     }
     const s = this.sittingKeys.find(buf, starts, ends, lay.sittingCols);
-    return s < 0 || this.state[s] !== REPLAY || line >= this.markLine[s]!;
+    return s < 0 || !(line < this.markLine[s]!);
   }
 
   /** The ordinary path: a record from the CSV reader, checked field by field. */
@@ -627,7 +900,11 @@ class WindowsIngest {
     changed: number,
   ): void {
     const lay = this.layout!;
-    if (this.current < 0 || (changed & SITTING_SLOTS) !== 0) this.enterSitting(buf, starts, ends);
+    let flags = 0;
+    if (this.current < 0 || (changed & SITTING_SLOTS) !== 0) {
+      this.enterSitting(buf, starts, ends);
+      flags |= ENTERED;
+    }
     if (this.currentPart < 0 || (changed & PART_SLOTS) !== 0) {
       // Unsorted input changes ids on every row, but a sitting's rows mostly share one part: try
       // the part of the sitting's previous row before looking the part up.
@@ -638,7 +915,7 @@ class WindowsIngest {
           : this.partKeys.find(buf, starts, ends, lay.partCols);
       if (part < 0) {
         part = this.partKeys.add(buf, starts, ends, lay.partCols);
-        this.partIds.push({
+        this.out.part(part, {
           classId: this.partKeys.text(part, 0),
           schoolId: this.partKeys.text(part, 1),
           unitId: this.partKeys.text(part, 2),
@@ -647,28 +924,11 @@ class WindowsIngest {
       }
       this.currentPart = part;
       this.lastPart[this.current] = part;
-      this.localPart = -1;
+      flags |= NEW_PART;
     }
     if (changed !== 0) this.prev.remember(buf, starts, ends, lay.ids);
-    const s = this.current;
-    if (this.pass > 0) {
-      if (this.state[s] === REPLAY && line < this.markLine[s]!) this.setAside(s, line, time, offset);
-      return;
-    }
-    this.rows[s]!++;
-    const acc = this.currentAcc;
-    if (acc === null) {
-      if (this.state[s] === CLOSED) this.mark(s, line);
-      this.setAside(s, line, time, offset);
-      return;
-    }
-    if (this.localPart < 0) this.localPart = acc.partIndex(this.currentPart, this.partIds[this.currentPart]!);
-    if (time <= acc.lastTime) {
-      this.mark(s, line);
-      this.setAside(s, line, time, offset);
-      return;
-    }
-    acc.add(time, offset, this.localPart, this.values);
+    if (this.pass > 0 && !(line < this.markLine[this.current]!)) return;
+    this.out.row(this.current, this.currentPart, time, offset, line, this.values, flags);
   }
 
   private enterSitting(buf: Buffer, starts: Int32Array, ends: Int32Array): void {
@@ -677,12 +937,128 @@ class WindowsIngest {
     if (s < 0) {
       if (this.pass > 0) throw new Error("a sitting appeared only when the file was read again");
       s = this.sittingKeys.add(buf, starts, ends, cols);
-      this.newSitting(s);
+      this.growLastPart(s);
+      this.out.sitting(s, this.sittingKeys.text(s, 0), this.sittingKeys.text(s, 1));
     }
+    this.current = s;
+  }
+}
+
+/**
+ * Reducing: each sitting's rows, in the order the parser found them, into its accumulator while
+ * they come in time order; sittings marked for replay set aside and replayed; the result.
+ */
+export class WindowsReducer implements RowSink {
+  readonly file: string;
+  /** The parser's account (after pass 1, when the parser ran in a worker); the replay adds to it. */
+  account: RowAccount;
+  private readonly maxRecordBytes: number;
+  private layout: Layout | null = null;
+  private plan: ConstructPlan | null = null;
+  /** 0 in pass 1, 1 when reading again (rows are only set aside). */
+  pass = 0;
+  private readonly partIds: PartIds[] = [];
+  private readonly students: string[] = [];
+  private readonly sessions: string[] = [];
+  private state = new Int8Array(1024);
+  /** Rows that passed validation, per sitting. */
+  private rows = new Int32Array(1024);
+  /** Per sitting marked for replay: the line of the mark when rows before it must be read again, else 0. */
+  markLine = new Int32Array(1024);
+  private partCount = new Int32Array(1024);
+  private withoutEstimate = new Int32Array(1024);
+  /** Summaries of closed sittings (a sitting kept again replaces its rows). */
+  private store: SummaryStore;
+  private readonly open = new Map<number, SessionAccumulator>();
+  /** Per sitting: when it was last entered (a count of entries), to close the least recent. */
+  private lastSeen = new Float64Array(1024);
+  private entries = 0;
+  /** Accumulators of closed sittings, to serve new ones. */
+  private readonly pool: SessionAccumulator[] = [];
+  private replayed = 0;
+  /** The last line of a mark: the second pass reads up to it (0: no second pass). */
+  lastMark = 0;
+  spill: SpillBuckets | null = null;
+
+  /** The current row's sitting, its accumulator (open sittings, pass 1), and its part in the sitting. */
+  private current = -1;
+  private currentAcc: SessionAccumulator | null = null;
+  private localPart = -1;
+
+  constructor(
+    private readonly path: string,
+    private readonly card: Card,
+    private readonly settings: Settings,
+  ) {
+    this.file = basename(path);
+    this.account = new RowAccount(this.file, settings);
+    this.maxRecordBytes = Math.max(1 << 20, settings.maxFieldChars * 4 * 64);
+    this.store = new SummaryStore([], this.students, this.sessions, this.partIds);
+  }
+
+  header(layout: Layout, present: readonly boolean[]): void {
+    this.layout = layout;
+    this.plan = new ConstructPlan(this.card, present);
+    this.store = new SummaryStore(this.plan.keys, this.students, this.sessions, this.partIds);
+  }
+
+  part(id: number, ids: PartIds): void {
+    this.partIds[id] = ids;
+  }
+
+  sitting(s: number, studentId: string, sessionId: string): void {
+    if (s >= this.state.length) {
+      const size = Math.max(s + 1, this.state.length * 2);
+      this.state = growInt8(this.state, size);
+      this.rows = growInt32(this.rows, size);
+      this.markLine = growInt32(this.markLine, size);
+      this.partCount = growInt32(this.partCount, size);
+      this.withoutEstimate = growInt32(this.withoutEstimate, size);
+      const seen = new Float64Array(size);
+      seen.set(this.lastSeen);
+      this.lastSeen = seen;
+    }
+    this.students[s] = studentId;
+    this.sessions[s] = sessionId;
+  }
+
+  row(
+    s: number,
+    part: number,
+    time: number,
+    offset: number,
+    line: number,
+    values: Float64Array,
+    flags: number,
+  ): void {
+    if (this.pass > 0) {
+      // The parser passes on only the rows wanted again.
+      this.setAside(s, part, line, time, offset, values);
+      return;
+    }
+    if ((flags & ENTERED) !== 0) this.enter(s);
+    else if ((flags & NEW_PART) !== 0) this.localPart = -1;
+    this.rows[s]!++;
+    const acc = this.currentAcc;
+    if (acc === null) {
+      if (this.state[s] === CLOSED) this.mark(s, line);
+      this.setAside(s, part, line, time, offset, values);
+      return;
+    }
+    if (this.localPart < 0) this.localPart = acc.partIndex(part, this.partIds[part]!);
+    if (time <= acc.lastTime) {
+      this.mark(s, line);
+      this.setAside(s, part, line, time, offset, values);
+      return;
+    }
+    acc.add(time, offset, this.localPart, values);
+  }
+
+  private enter(s: number): void {
     this.current = s;
     this.localPart = -1;
     this.currentAcc = null;
-    if (this.pass > 0 || this.state[s] !== OPEN) return;
+    if (this.state[s] !== OPEN) return;
     this.lastSeen[s] = ++this.entries;
     let acc = this.open.get(s);
     if (!acc) {
@@ -706,25 +1082,6 @@ class WindowsIngest {
     stamps.sort();
     const cut = stamps[stamps.length >> 1]!;
     for (const s of [...this.open.keys()]) if (s !== keep && this.lastSeen[s]! <= cut) this.close(s);
-  }
-
-  private newSitting(s: number): void {
-    if (s === this.state.length) {
-      const size = s * 2;
-      this.state = growInt8(this.state, size);
-      this.rows = growInt32(this.rows, size);
-      this.markLine = growInt32(this.markLine, size);
-      this.partCount = growInt32(this.partCount, size);
-      this.withoutEstimate = growInt32(this.withoutEstimate, size);
-      const lastPart = new Int32Array(size).fill(-1);
-      lastPart.set(this.lastPart);
-      this.lastPart = lastPart;
-      const seen = new Float64Array(size);
-      seen.set(this.lastSeen);
-      this.lastSeen = seen;
-    }
-    this.students.push(this.sittingKeys.text(s, 0));
-    this.sessions.push(this.sittingKeys.text(s, 1));
   }
 
   /** Reduces an open sitting to its summaries and frees its accumulator. */
@@ -770,16 +1127,15 @@ class WindowsIngest {
     }
   }
 
-  private setAside(s: number, line: number, time: number, offset: number): void {
-    this.spill!.write(s, this.currentPart, line, time, offset, this.values);
-  }
-
-  /** Second pass, when needed: the rows of marked sittings from before their mark. */
-  readAgain(): void {
-    if (this.lastMark === 0) return;
-    this.pass = 1;
-    this.stopLine = this.lastMark;
-    this.read();
+  private setAside(
+    s: number,
+    part: number,
+    line: number,
+    time: number,
+    offset: number,
+    values: Float64Array,
+  ): void {
+    this.spill!.write(s, part, line, time, offset, values);
   }
 
   // ---------------------------------------------------------------------------------------------
@@ -793,7 +1149,7 @@ class WindowsIngest {
     const stopOnConflict = this.settings.strict ? this.conflictStop() : null;
     const budgetRows = Math.max(1, Math.floor(REPLAY_BUDGET_BYTES / (8 + 4 + 4 + 4 + 8 * k)));
     const rows = new ReplayRows(k);
-    const n = this.sittingKeys.size;
+    const n = this.students.length;
     for (let b = 0; b < spill.bucketCount; b++) {
       const lo = b << spill.shift;
       const hi = Math.min(n, lo + (1 << spill.shift));
@@ -953,7 +1309,7 @@ class WindowsIngest {
 
   result(): WindowsResult {
     const plan = this.plan!;
-    const n = this.sittingKeys.size;
+    const n = this.students.length;
     let spanning = 0;
     let rowsWithoutEstimate = 0;
     for (let s = 0; s < n; s++) {

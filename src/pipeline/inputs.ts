@@ -70,7 +70,7 @@ function hashFile(role: InputFile["role"], path: string): InputFile {
 export function loadInputs(
   paths: InputPaths,
   effects: Effects,
-  options: { hash?: boolean } = {},
+  options: { hash?: boolean; threads?: number | undefined } = {},
 ): LoadedInputs {
   const inputs = streamInputs(paths, effects, options);
   const summaries = inputs.summaries;
@@ -88,7 +88,7 @@ export function loadInputs(
 export function streamInputs(
   paths: InputPaths,
   effects: Effects,
-  options: { hash?: boolean } = {},
+  options: { hash?: boolean; threads?: number | undefined } = {},
 ): StreamedInputs {
   const hashing = options.hash ?? true;
   // Order: settings and card first, because parsing the data needs the card's constructs and the settings' limits.
@@ -114,17 +114,16 @@ export function streamInputs(
   if (paths.windows) {
     const hash = createHash("sha256");
     let bytes = 0;
-    const w = summarizeWindowsFile(
-      paths.windows,
-      card,
-      settings,
-      hashing
+    const w = summarizeWindowsFile(paths.windows, card, settings, {
+      // Hashing sees every byte in order, so it keeps the reading in one thread.
+      onBytes: hashing
         ? (chunk) => {
             hash.update(chunk);
             bytes += chunk.length;
           }
         : undefined,
-    );
+      threads: options.threads,
+    });
     files.push({ role: "windows", name: w.file, sha256: hashing ? hash.digest("hex") : "", bytes });
     summaries = w.store;
     hasActivity = w.columns.hasActivity;
