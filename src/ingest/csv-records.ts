@@ -82,6 +82,8 @@ export interface ReadOptions {
    */
   readonly start?: number;
   readonly until?: number;
+  /** The number of the line at `start` (1 when not given). */
+  readonly firstLine?: number;
 }
 
 /** Where reading stopped: the offset of the first record not read (the file's size at its end) and its line. */
@@ -403,7 +405,7 @@ function readRecords(read: ReadInto, sink: RecordSink, options: ReadOptions): Re
   let len = 0;
   let pos = 0;
   let eof = false;
-  let line = 1;
+  let line = options.firstLine ?? 1;
   let skipping = false; // inside an over-long line being discarded
   const view = new Reader(buf);
   /** File offset of buf[0]. */

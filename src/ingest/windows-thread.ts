@@ -1,11 +1,11 @@
 /**
- * A windows file read by two threads. This thread parses and reduces the first part of the file as
- * it would the whole; meanwhile a worker parses the rest (WindowsParser: reading and checking, the
- * larger half of the work) into batches of rows. Then this thread reduces those rows, in file
- * order, as if it had parsed them itself: the worker's sittings and parts are renumbered by their
- * ids (adoptSitting), its lines moved on by the lines before its part, and its rejections counted
- * after the first part's. The reducer sees the same calls in the same order as reading in one go,
- * so the summaries, the account and every message are the same.
+ * A windows file read by two threads, in parts taken alternately (windows.ts, readInParts). This
+ * thread parses and reduces its parts as it would the whole file; meanwhile a worker parses the
+ * others (WindowsParser: reading and checking, the larger half of the work) into batches of rows,
+ * which this thread reduces in their turn, as if it had parsed them itself: the worker's sittings
+ * and parts are renumbered by their ids (adoptSitting), its lines moved on by the lines before each
+ * part, and its rejections counted after the rows before them. The reducer sees the same calls in
+ * the same order as reading in one go, so the summaries, the account and every message are the same.
  *
  * The rows cross in batches of typed arrays (moved, not copied), with the ids of the sittings and
  * parts that first appear in them. The ingest stays synchronous: this thread takes each batch with
@@ -16,20 +16,20 @@ import { MessageChannel, type MessagePort, receiveMessageOnPort, Worker } from "
 import type { Card, Settings } from "../config/types.js";
 import { InputError, SettingsError, StrictRowError } from "../errors.js";
 import type { PartIds } from "../summaries/session-accumulator.js";
-import type { AccountSnapshot } from "./quality.js";
+import type { ReadEnd } from "./csv-records.js";
 import {
   countDeferred,
   type DeferredRejects,
   type Layout,
   type RowSink,
-  type WindowsParser,
+  WindowsParser,
   type WindowsReducer,
 } from "./windows.js";
 
 /** Rows per batch. */
 const BATCH_ROWS = 8192;
-/** Batches posted and not yet taken, at most. */
-const MAX_AHEAD = 64;
+/** Batches posted and not yet taken, at most (about 20 MB with six constructs). */
+const MAX_AHEAD = 32;
 /** Slots of the shared counter. */
 const PRODUCED = 0;
 const CONSUMED = 1;
@@ -40,7 +40,8 @@ export interface WorkerInput {
   readonly path: string;
   readonly card: Card;
   readonly settings: Settings;
-  readonly start: number;
+  /** The worker's parts: start and end offsets, one pair each (the last end is Infinity: the end of the file). */
+  readonly parts: readonly number[];
   readonly port: MessagePort;
   readonly counter: Int32Array;
 }
@@ -55,109 +56,125 @@ export type FromWorker =
       sittings: (number | string)[];
       parts: (number | PartIds)[];
     }
-  | { type: "end"; account: AccountSnapshot; deferred: DeferredRejects }
+  | {
+      type: "part";
+      /** Where the part's reading stopped, and its lines. */
+      offset: number;
+      lines: number;
+      rowsRead: number;
+      blankLines: number;
+      deferred: DeferredRejects;
+    }
   | { type: "error"; kind: "input" | "settings" | "strict" | "bug"; message: string; stack: string };
 
-/** The parser of the file's later part, from `start` on: in a worker, or (for tests) here, before anything else. */
-export interface LaterPart {
-  next(): FromWorker;
+/** The worker's parts, reduced here one by one in their turn. */
+export interface WorkerParts {
+  /** Reduces the worker's next part, which starts at line `line`; returns where its reading stopped. */
+  reducePart(parser: WindowsParser, reducer: WindowsReducer, line: number): ReadEnd;
   close(): void;
 }
 
-export function laterPart(
+export function workerParts(
   path: string,
   card: Card,
   settings: Settings,
-  start: number,
-  inThisThread: boolean,
-  parserOf: (out: RowSink) => WindowsParser,
-): LaterPart {
+  parts: readonly number[],
+  here: boolean,
+): WorkerParts {
+  const input = { path, card, settings, parts };
+  let next: () => FromWorker;
+  let close = (): void => {};
   // The TypeScript sources (under the tests) cannot start a worker on Node 20, whose loader hooks
-  // do not reach worker threads: they parse the later part here; the build starts the worker.
-  if (inThisThread || import.meta.url.endsWith(".ts")) {
+  // do not reach worker threads: they parse the worker's parts here first; the build starts it.
+  if (here || import.meta.url.endsWith(".ts")) {
     const messages: FromWorker[] = [];
-    runLaterPart(parserOf, new BatchOut((m) => messages.push(m)));
-    return { next: () => messages.shift()!, close: () => {} };
-  }
-  const counter = new Int32Array(new SharedArrayBuffer(8));
-  const { port1, port2 } = new MessageChannel();
-  const input: WorkerInput = { path, card, settings, start, port: port2, counter };
-  const worker = new Worker(new URL("./windows-worker.js", import.meta.url), {
-    workerData: input,
-    transferList: [port2],
-  });
-  worker.unref();
-  return {
-    next: () => next(port1, counter),
-    close: () => {
+    parseParts(input, new BatchOut((m) => messages.push(m)));
+    let at = 0;
+    next = () => messages[at++]!;
+  } else {
+    const counter = new Int32Array(new SharedArrayBuffer(8));
+    const { port1, port2 } = new MessageChannel();
+    const workerData: WorkerInput = { ...input, port: port2, counter };
+    const worker = new Worker(new URL("./windows-worker.js", import.meta.url), {
+      workerData,
+      transferList: [port2],
+    });
+    worker.unref();
+    next = () => nextMessage(port1, counter);
+    close = () => {
       port1.close();
       void worker.terminate();
-    },
-  };
+    };
+  }
+  const feed = new PartFeed();
+  return { reducePart: (parser, reducer, line) => feed.reduce(next, parser, reducer, line), close };
 }
 
-/** The worker's (or the test's) run: pass 1 over the later part, its rows and account posted. */
-export function runLaterPart(parserOf: (out: RowSink) => WindowsParser, out: BatchOut): void {
+/** The worker's run (or the tests'): its parts parsed in order, each ended by a "part" message. */
+export function parseParts(
+  input: { path: string; card: Card; settings: Settings; parts: readonly number[] },
+  out: BatchOut,
+): void {
   try {
-    const parser = parserOf(out);
-    parser.read();
-    out.end(parser.account.snapshot(), parser.deferred!);
+    const parser = new WindowsParser(input.path, input.card, input.settings, out, { deferRejections: true });
+    for (let i = 0; i < input.parts.length; i += 2) {
+      const end = parser.readPart(input.parts[i]!, input.parts[i + 1]!, 1);
+      out.endPart(end, parser.takePart());
+    }
   } catch (error) {
     out.error(error);
   }
 }
 
-/**
- * Reduces the later part's rows after the first part's: `parser` (the first part's) numbers their
- * sittings and parts, `lineBase` is the count of lines before the later part.
- */
-export function reduceLaterPart(
-  later: LaterPart,
-  parser: WindowsParser,
-  reducer: WindowsReducer,
-  lineBase: number,
-): void {
-  let values = new Float64Array(0);
-  const sittingOf: number[] = [];
-  const partOf: number[] = [];
-  for (;;) {
-    const m = later.next();
-    if (m.type === "header") {
-      values = new Float64Array(m.layout.constructCols.length);
-    } else if (m.type === "rows") {
-      for (let i = 0; i < m.sittings.length; i += 3) {
-        sittingOf[m.sittings[i] as number] = parser.adoptSitting(
-          m.sittings[i + 1] as string,
-          m.sittings[i + 2] as string,
-        );
+/** Reduces the worker's rows part by part, keeping its sittings' and parts' numbers here. */
+class PartFeed {
+  private values = new Float64Array(0);
+  private readonly sittingOf: number[] = [];
+  private readonly partOf: number[] = [];
+
+  reduce(next: () => FromWorker, parser: WindowsParser, reducer: WindowsReducer, line: number): ReadEnd {
+    const lineBase = line - 1;
+    const { sittingOf, partOf } = this;
+    for (;;) {
+      const m = next();
+      if (m.type === "header") {
+        this.values = new Float64Array(m.layout.constructCols.length);
+      } else if (m.type === "rows") {
+        for (let i = 0; i < m.sittings.length; i += 3) {
+          sittingOf[m.sittings[i] as number] = parser.adoptSitting(
+            m.sittings[i + 1] as string,
+            m.sittings[i + 2] as string,
+          );
+        }
+        for (let i = 0; i < m.parts.length; i += 2) {
+          partOf[m.parts[i] as number] = parser.adoptPart(m.parts[i + 1] as PartIds);
+        }
+        const values = this.values;
+        const k = values.length;
+        const { ints, floats } = m;
+        for (let r = 0; r < m.n; r++) {
+          const f = r * (k + 1);
+          for (let c = 0; c < k; c++) values[c] = floats[f + 1 + c]!;
+          const i = r * INTS;
+          reducer.row(
+            sittingOf[ints[i]!]!,
+            partOf[ints[i + 1]!]!,
+            floats[f]!,
+            ints[i + 3]!,
+            ints[i + 2]! + lineBase,
+            values,
+            ints[i + 4]!,
+          );
+        }
+      } else if (m.type === "part") {
+        const account = reducer.account;
+        account.rowsRead += m.rowsRead;
+        account.blankLines += m.blankLines;
+        countDeferred(account, m.deferred, lineBase);
+        return { offset: m.offset, line: line + m.lines };
+      } else {
+        throw rebuilt(m);
       }
-      for (let i = 0; i < m.parts.length; i += 2) {
-        partOf[m.parts[i] as number] = parser.adoptPart(m.parts[i + 1] as PartIds);
-      }
-      const k = values.length;
-      const { ints, floats } = m;
-      for (let r = 0; r < m.n; r++) {
-        const f = r * (k + 1);
-        for (let c = 0; c < k; c++) values[c] = floats[f + 1 + c]!;
-        const i = r * INTS;
-        reducer.row(
-          sittingOf[ints[i]!]!,
-          partOf[ints[i + 1]!]!,
-          floats[f]!,
-          ints[i + 3]!,
-          ints[i + 2]! + lineBase,
-          values,
-          ints[i + 4]!,
-        );
-      }
-    } else if (m.type === "end") {
-      const account = reducer.account;
-      account.rowsRead += m.account.rowsRead;
-      account.blankLines += m.account.blankLines;
-      countDeferred(account, m.deferred, lineBase);
-      return;
-    } else {
-      throw rebuilt(m);
     }
   }
 }
@@ -169,7 +186,7 @@ export function reduceLaterPart(
 const STALL_MS = 120_000;
 
 /** The next message from the worker, waiting for it. */
-function next(port: MessagePort, counter: Int32Array): FromWorker {
+function nextMessage(port: MessagePort, counter: Int32Array): FromWorker {
   let waited = 0;
   for (;;) {
     let got = receiveMessageOnPort(port);
@@ -262,9 +279,9 @@ export class BatchOut implements RowSink {
     this.fresh();
   }
 
-  end(account: AccountSnapshot, deferred: DeferredRejects): void {
+  endPart(end: ReadEnd, counts: { rowsRead: number; blankLines: number; deferred: DeferredRejects }): void {
     this.flush();
-    this.post({ type: "end", account, deferred });
+    this.post({ type: "part", offset: end.offset, lines: end.line - 1, ...counts });
   }
 
   error(error: unknown): void {

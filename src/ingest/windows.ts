@@ -45,7 +45,7 @@ import { EMPTY, parseNumber } from "./number.js";
 import { type Example, location, RowAccount } from "./quality.js";
 import { SpillBuckets } from "./replay-spill.js";
 import { parseTimestamp, TimestampReader } from "./timestamp.js";
-import { laterPart, reduceLaterPart } from "./windows-thread.js";
+import { workerParts } from "./windows-thread.js";
 
 const REQUIRED = ["student_id", "class_id", "unit_id", "session_id", "window_start"] as const;
 const OPTIONAL = ["school_id", "activity_id"] as const;
@@ -238,25 +238,28 @@ export interface WindowsOptions {
   /** Sees every byte of the file, in order (to hash it in the same pass); keeps the reading in this thread. */
   readonly onBytes?: ((bytes: Buffer) => void) | undefined;
   /**
-   * 2 to have a worker thread parse the later part of the file while this thread reads the first
-   * (windows-thread.ts); 1 for one thread. Default: defaultThreads.
+   * 2 to have a worker thread parse parts of the file while this thread reads the others
+   * (ROUND_BYTES, windows-thread.ts); 1 for one thread. Default: defaultThreads.
    */
   readonly threads?: number | undefined;
-  /** Where the later part starts, as a share of the file's bytes (then moved to the next line). */
-  readonly splitShare?: number | undefined;
-  /** For tests: the byte offset of the later part (a line start), and its parser run in this thread. */
-  readonly splitAt?: number | undefined;
-  readonly laterInThisThread?: boolean | undefined;
+  /**
+   * For tests: where the parts start (line starts, ascending), the first part [0, parts[0]) read
+   * here, the next by the worker, and so on alternately; and the worker's parser run in this thread.
+   */
+  readonly parts?: readonly number[] | undefined;
+  readonly workerHere?: boolean | undefined;
 }
 
 /**
- * The first part's share of the bytes. This thread parses and reduces the first part, then reduces
- * the later part's rows, which costs about a third of parsing them: a first part of 30 % keeps both
- * threads busy to about the same time (bench/RESULTS.md).
+ * Two threads read the file in rounds of ROUND_BYTES: this thread parses and reduces the first
+ * THIS_SHARE of a round while the worker parses the rest, which this thread then reduces (about a
+ * third of the cost of parsing it). The worker parses its next part while this thread reads its
+ * own, so the rows waiting between them stay within a round (a few MB), whatever the file's size.
  */
-const SPLIT_SHARE = 0.3;
+const ROUND_BYTES = 32 * 1024 * 1024;
+const THIS_SHARE = 0.15;
 
-/** Files from this size on are read in a worker when two cores are free: below it, starting one does not pay. */
+/** Files from this size on are read by two threads when two cores are there: below it, starting a worker does not pay. */
 const THREAD_MIN_BYTES = 32 * 1024 * 1024;
 
 /** 2 for a file of at least THREAD_MIN_BYTES on a machine with two cores or more, else 1. */
@@ -278,11 +281,11 @@ export function summarizeWindowsFile(
 ): WindowsResult {
   const opts: WindowsOptions = typeof options === "function" ? { onBytes: options } : options;
   const threads = opts.onBytes ? 1 : (opts.threads ?? defaultThreads(path));
-  const split = threads > 1 ? (opts.splitAt ?? lineStartAfter(path, opts.splitShare ?? SPLIT_SHARE)) : -1;
-  if (split > 0) {
+  const parts = threads > 1 ? (opts.parts ?? partStarts(path)) : [];
+  if (parts.length > 0) {
     const reducer = new WindowsReducer(path, card, settings);
     try {
-      if (readSplit(path, card, settings, reducer, split, opts.laterInThisThread === true)) {
+      if (readInParts(path, card, settings, reducer, parts, opts.workerHere === true)) {
         reducer.replay();
         return reducer.result();
       }
@@ -300,54 +303,69 @@ export function summarizeWindowsFile(
   }
 }
 
-/** The offset just after the first line feed at or after `share` of the file's bytes; -1 when none. */
-function lineStartAfter(path: string, share: number): number {
+/** The starts of the parts after the first (see ROUND_BYTES), each moved to the next line start. */
+function partStarts(path: string): number[] {
   let fd: number;
   try {
     fd = openSync(path, "r");
   } catch {
-    return -1; // the reader gives the message
+    return []; // the reader gives the message
   }
   try {
     const size = fstatSync(fd).size;
+    const starts: number[] = [];
     const buf = Buffer.allocUnsafe(1 << 16);
-    for (let at = Math.floor(size * share); at < size; at += buf.length) {
-      const n = readSync(fd, buf, 0, buf.length, at);
-      const nl = buf.subarray(0, n).indexOf(10);
-      if (nl >= 0) return at + nl + 1 < size ? at + nl + 1 : -1;
+    for (let round = 0; round < size; round += ROUND_BYTES) {
+      for (const offset of [round + ROUND_BYTES * THIS_SHARE, round + ROUND_BYTES]) {
+        const at = lineStartAfter(fd, buf, Math.floor(offset), size);
+        if (at < 0) return starts;
+        if (starts.length === 0 || at > starts[starts.length - 1]!) starts.push(at);
+      }
     }
-    return -1;
+    return starts;
   } finally {
     closeSync(fd);
   }
 }
 
+/** The offset just after the first line feed at or after `from`; -1 when there is none, or it ends the file. */
+function lineStartAfter(fd: number, buf: Buffer, from: number, size: number): number {
+  for (let at = from; at < size; at += buf.length) {
+    const n = readSync(fd, buf, 0, buf.length, at);
+    const nl = buf.subarray(0, n).indexOf(10);
+    if (nl >= 0) return at + nl + 1 < size ? at + nl + 1 : -1;
+  }
+  return -1;
+}
+
 /**
- * Both passes with the later part parsed by another parser (windows-thread.ts). False when a record
- * crosses the split (a quoted field with a line break in it), which only reading in one go gets right.
+ * Pass 1 in parts, alternately here and in the worker (windows-thread.ts), then the second pass
+ * here. False when a record crosses from one part into the next (a quoted field with a line
+ * break), which only reading in one go gets right.
  */
-function readSplit(
+function readInParts(
   path: string,
   card: Card,
   settings: Settings,
   reducer: WindowsReducer,
-  split: number,
-  laterHere: boolean,
+  starts: readonly number[],
+  workerHere: boolean,
 ): boolean {
-  const later = laterPart(
-    path,
-    card,
-    settings,
-    split,
-    laterHere,
-    (out) => new WindowsParser(path, card, settings, out, { start: split }),
-  );
+  const bounds = [0, ...starts, Number.POSITIVE_INFINITY];
+  const theirs: number[] = [];
+  for (let i = 1; i + 1 < bounds.length; i += 2) theirs.push(bounds[i]!, bounds[i + 1]!);
+  const worker = workerParts(path, card, settings, theirs, workerHere);
   try {
-    const parser = new WindowsParser(path, card, settings, reducer, { until: split });
+    const parser = new WindowsParser(path, card, settings, reducer);
     reducer.account = parser.account;
-    const end = parser.read();
-    if (end.offset !== split) return false;
-    reduceLaterPart(later, parser, reducer, end.line - 1);
+    let line = 1;
+    for (let i = 0; i + 1 < bounds.length; i++) {
+      const [start, until] = [bounds[i]!, bounds[i + 1]!];
+      const end =
+        i % 2 === 0 ? parser.readPart(start, until, line) : worker.reducePart(parser, reducer, line);
+      if (until !== Number.POSITIVE_INFINITY && end.offset !== until) return false;
+      line = end.line;
+    }
     if (reducer.account.rowsRead === 0) throw new InputError(msg.headerOnly(path, "windows file"));
     reducer.closeAll();
     if (reducer.lastMark > 0) {
@@ -356,7 +374,7 @@ function readSplit(
     }
     return true;
   } finally {
-    later.close();
+    worker.close();
   }
 }
 
@@ -505,29 +523,25 @@ export class WindowsParser {
   /** The current row's sitting and part. */
   private current = -1;
   private currentPart = -1;
-  /** Pass 1 reads the bytes from `start` (a line start) and begins no record from `until` on. */
-  private readonly start: number;
-  private until: number;
   /**
-   * Reading a later part of the file (start > 0): its lines are counted from 1 there, so its
-   * rejections are kept with those lines, to be counted with the right lines by whoever knows them.
+   * A parser of parts of the file that does not know the lines before them (in a worker): it counts
+   * each part's lines from 1 and keeps its rejections with those lines (takePart), to be counted
+   * with the right lines by the thread that knows them.
    */
-  readonly deferred: DeferredRejects | null;
+  private deferred: DeferredRejects | null;
 
   constructor(
     private readonly path: string,
     private readonly card: Card,
     private readonly settings: Settings,
     private readonly out: RowSink,
-    range: { start?: number; until?: number } = {},
+    options: { deferRejections?: boolean } = {},
   ) {
     this.file = basename(path);
     this.account = new RowAccount(this.file, settings);
     this.maxBytes = settings.maxFieldChars * 4;
     this.maxRecordBytes = Math.max(1 << 20, this.maxBytes * 64);
-    this.start = range.start ?? 0;
-    this.until = range.until ?? Number.POSITIVE_INFINITY;
-    this.deferred = this.start > 0 ? { examples: [], counts: [] } : null;
+    this.deferred = options.deferRejections ? { examples: [], counts: [] } : null;
   }
 
   /**
@@ -564,48 +578,71 @@ export class WindowsParser {
 
   /** Second pass: the rows of marked sittings before their marks (markLine, by sitting), up to stopLine. */
   readAgain(markLine: Int32Array, stopLine: number): void {
-    if (this.start > 0) throw new Error("the second pass reads the whole file, from its first parser");
+    if (this.deferred) throw new Error("the second pass reads the whole file, with the first part's parser");
     this.pass = 1;
     this.markLine = markLine;
     this.stopLine = stopLine;
-    this.until = Number.POSITIVE_INFINITY;
     this.read();
+  }
+
+  /**
+   * Pass 1 over the part of the file from byte `start` (a line start, whose line is `firstLine`)
+   * up to the first record that begins at or after `until`; returns where it stopped. The header
+   * is read first from the top of the file when this parser has not seen it.
+   */
+  readPart(start: number, until: number, firstLine: number): ReadEnd {
+    this.current = -1;
+    this.currentPart = -1;
+    this.prev.valid = false;
+    if (start > 0 && this.layout === null) {
+      this.sawHeader = false;
+      this.headerOnly = true;
+      this.readRange({});
+      this.headerOnly = false;
+    }
+    if (start === 0) this.sawHeader = false;
+    const end = this.readRange({ start, until, firstLine });
+    if (!this.sawHeader) throw new InputError(msg.emptyFile(this.path, "windows file"));
+    return end;
+  }
+
+  /** The rows read, blank lines and rejections of the parts read since the last call, which it clears. */
+  takePart(): { rowsRead: number; blankLines: number; deferred: DeferredRejects } {
+    const out = {
+      rowsRead: this.account.rowsRead,
+      blankLines: this.account.blankLines,
+      deferred: this.deferred!,
+    };
+    this.account.rowsRead = 0;
+    this.account.blankLines = 0;
+    this.deferred = { examples: [], counts: [] };
+    return out;
   }
 
   // ---------------------------------------------------------------------------------------------
   // Reading.
 
-  /**
-   * Reads the file (pass 1: from `start` up to `until`; the second pass: from the top). Returns
-   * where reading stopped. A parser of a later part reads the header first, from the top of the file.
-   */
-  read(onBytes?: (bytes: Buffer) => void): ReadEnd {
+  /** Reads the whole file (pass 1, or the second pass up to its stop line). */
+  read(onBytes?: (bytes: Buffer) => void): void {
     this.sawHeader = false;
     this.current = -1;
     this.currentPart = -1;
     this.prev.valid = false;
-    const later = this.pass === 0 && this.start > 0;
-    if (later) {
-      this.headerOnly = true;
-      this.readRange({});
-      this.headerOnly = false;
-    }
-    const end = this.readRange({
-      ...(this.pass === 0 && onBytes ? { onBytes } : {}),
-      ...(this.pass === 0 ? { start: this.start, until: this.until } : {}),
-    });
-    if (this.pass > 0) return end;
+    this.readRange(this.pass === 0 && onBytes ? { onBytes } : {});
+    if (this.pass > 0) return;
     if (!this.sawHeader) throw new InputError(msg.emptyFile(this.path, "windows file"));
-    // A part of the file may hold no row: the caller checks the whole.
-    const whole = this.start === 0 && this.until === Number.POSITIVE_INFINITY;
-    if (whole && this.account.rowsRead === 0) throw new InputError(msg.headerOnly(this.path, "windows file"));
-    return end;
+    if (this.account.rowsRead === 0) throw new InputError(msg.headerOnly(this.path, "windows file"));
   }
 
   /** Pass 1 over a part of the file, or the header alone: no row yet read. */
   private headerOnly = false;
 
-  private readRange(range: { onBytes?: (bytes: Buffer) => void; start?: number; until?: number }): ReadEnd {
+  private readRange(range: {
+    onBytes?: (bytes: Buffer) => void;
+    start?: number;
+    until?: number;
+    firstLine?: number;
+  }): ReadEnd {
     try {
       return readRecordsFromFile(this.path, this.sink(), { maxRecordBytes: this.maxRecordBytes, ...range });
     } catch (error) {

@@ -100,7 +100,7 @@ function expectEverySplit(path: string, settings: Settings = DEFAULT_SETTINGS): 
   const starts = lineStarts(path);
   for (const splitAt of starts) {
     const two = outcome(
-      summarizeWindowsFile(path, card, settings, { threads: 2, splitAt, laterInThisThread: true }),
+      summarizeWindowsFile(path, card, settings, { threads: 2, parts: [splitAt], workerHere: true }),
     );
     expect({ splitAt, ...two }).toEqual({ splitAt, ...one });
   }
@@ -126,6 +126,24 @@ describe("a windows file read in two parts", () => {
     expect(one.replayedSittings).toBeGreaterThan(0);
     expect(one.store.length).toBeGreaterThan(5);
     expect(expectEverySplit(path)).toBe(lines.length + 1);
+  });
+
+  it("gives what one thread gives in three parts, split at every pair of lines", () => {
+    const path = write("three.csv", lines);
+    const one = outcome(summarizeWindowsFile(path, card, DEFAULT_SETTINGS, { threads: 1 }));
+    const starts = lineStarts(path);
+    let runs = 0;
+    for (const a of starts) {
+      for (const b of starts) {
+        if (b <= a) continue;
+        const three = outcome(
+          summarizeWindowsFile(path, card, DEFAULT_SETTINGS, { threads: 2, parts: [a, b], workerHere: true }),
+        );
+        expect({ a, b, ...three }).toEqual({ a, b, ...one });
+        runs++;
+      }
+    }
+    expect(runs).toBe((starts.length * (starts.length - 1)) / 2);
   });
 
   it("gives what one thread gives for the same rows shuffled, split at every line", () => {
@@ -163,7 +181,7 @@ describe("a windows file read in two parts", () => {
     expect(one).toMatch(/^StrictRowError: .*strict\.csv:10:/);
     for (const splitAt of lineStarts(path)) {
       const two = errorOf(() =>
-        summarizeWindowsFile(path, card, strict, { threads: 2, splitAt, laterInThisThread: true }),
+        summarizeWindowsFile(path, card, strict, { threads: 2, parts: [splitAt], workerHere: true }),
       );
       expect({ splitAt, error: two }).toEqual({ splitAt, error: one });
     }
@@ -173,12 +191,10 @@ describe("a windows file read in two parts", () => {
     const path = write("header-only.csv", []);
     const one = errorOf(() => summarizeWindowsFile(path, card, DEFAULT_SETTINGS, { threads: 1 }));
     expect(one).toMatch(/^InputError: /);
-    expect(
-      errorOf(() => summarizeWindowsFile(path, card, DEFAULT_SETTINGS, { threads: 2, splitShare: 0.5 })),
-    ).toBe(one);
+    expect(errorOf(() => summarizeWindowsFile(path, card, DEFAULT_SETTINGS, { threads: 2 }))).toBe(one);
   });
 
-  it("with the later part parsed in a worker thread (the build in dist/: run npm run build first)", async () => {
+  it("with the worker's parts parsed in a worker thread (the build in dist/: run npm run build first)", async () => {
     // Node 20 starts workers only from JavaScript, so this runs the compiled ingest.
     const dist = "../../dist/ingest/windows.js";
     const { summarizeWindowsFile: compiled } = (await import(
@@ -186,8 +202,10 @@ describe("a windows file read in two parts", () => {
     )) as typeof import("../../src/ingest/windows.js");
     const path = write("worker.csv", lines);
     const one = outcome(summarizeWindowsFile(path, card, DEFAULT_SETTINGS, { threads: 1 }));
-    for (const splitAt of lineStarts(path).filter((_, i) => i % 7 === 3)) {
-      expect(outcome(compiled(path, card, DEFAULT_SETTINGS, { threads: 2, splitAt }))).toEqual(one);
+    const starts = lineStarts(path);
+    for (let i = 3; i + 4 < starts.length; i += 7) {
+      const parts = [starts[i]!, starts[i + 4]!];
+      expect(outcome(compiled(path, card, DEFAULT_SETTINGS, { threads: 2, parts }))).toEqual(one);
     }
   });
 });
