@@ -251,13 +251,18 @@ export interface WindowsOptions {
 }
 
 /**
- * Two threads read the file in rounds of ROUND_BYTES: this thread parses and reduces the first
- * THIS_SHARE of a round while the worker parses the rest, which this thread then reduces (about a
- * third of the cost of parsing it). The worker parses its next part while this thread reads its
- * own, so the rows waiting between them stay within a round (a few MB), whatever the file's size.
+ * Two threads read the file in rounds of ROUND_BYTES: the worker parses a part of a round, which
+ * this thread then reduces, and this thread parses and reduces the rest. The worker parses its next
+ * part while this thread reads its own, so the rows waiting between them stay within a round (a few
+ * MB), whatever the file's size. This thread's share depends on the order of the rows, which
+ * this thread sees in the first PROBE_BYTES: sorted rows cost the worker less to parse (ids repeat
+ * the previous row's) than this thread to reduce, so it takes a small share; rows that change
+ * sitting on almost every row (shuffled) cost the parser lookups, and this thread takes more.
  */
 const ROUND_BYTES = 32 * 1024 * 1024;
-const THIS_SHARE = 0.15;
+const PROBE_BYTES = 1024 * 1024;
+const SORTED_SHARE = 0.15;
+const SHUFFLED_SHARE = 0.35;
 
 /** Files from this size on are read by two threads when two cores are there: below it, starting a worker does not pay. */
 const THREAD_MIN_BYTES = 32 * 1024 * 1024;
@@ -281,11 +286,10 @@ export function summarizeWindowsFile(
 ): WindowsResult {
   const opts: WindowsOptions = typeof options === "function" ? { onBytes: options } : options;
   const threads = opts.onBytes ? 1 : (opts.threads ?? defaultThreads(path));
-  const parts = threads > 1 ? (opts.parts ?? partStarts(path)) : [];
-  if (parts.length > 0) {
+  if (threads > 1) {
     const reducer = new WindowsReducer(path, card, settings);
     try {
-      if (readInParts(path, card, settings, reducer, parts, opts.workerHere === true)) {
+      if (readInParts(path, card, settings, reducer, opts.parts ?? null, opts.workerHere === true)) {
         reducer.replay();
         return reducer.result();
       }
@@ -303,26 +307,39 @@ export function summarizeWindowsFile(
   }
 }
 
-/** The starts of the parts after the first (see ROUND_BYTES), each moved to the next line start. */
-function partStarts(path: string): number[] {
+/**
+ * The starts of the parts from `from` on (see ROUND_BYTES), the worker's first, each moved to the
+ * next line start; `share` is this thread's share of a round.
+ */
+function partStarts(path: string, from: number, share: number): number[] {
+  const fd = openSync(path, "r");
+  try {
+    const size = fstatSync(fd).size;
+    const starts = [from];
+    const buf = Buffer.allocUnsafe(1 << 16);
+    for (let round = from; round < size; round += ROUND_BYTES) {
+      for (const offset of [round + ROUND_BYTES * (1 - share), round + ROUND_BYTES]) {
+        const at = lineStartAfter(fd, buf, Math.floor(offset), size);
+        if (at < 0) return starts;
+        if (at > starts[starts.length - 1]!) starts.push(at);
+      }
+    }
+    return starts;
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/** The start of the first line at or after `from`, or -1 (see lineStartAfter). */
+function lineStartFrom(path: string, from: number): number {
   let fd: number;
   try {
     fd = openSync(path, "r");
   } catch {
-    return []; // the reader gives the message
+    return -1; // the reader gives the message
   }
   try {
-    const size = fstatSync(fd).size;
-    const starts: number[] = [];
-    const buf = Buffer.allocUnsafe(1 << 16);
-    for (let round = 0; round < size; round += ROUND_BYTES) {
-      for (const offset of [round + ROUND_BYTES * THIS_SHARE, round + ROUND_BYTES]) {
-        const at = lineStartAfter(fd, buf, Math.floor(offset), size);
-        if (at < 0) return starts;
-        if (starts.length === 0 || at > starts[starts.length - 1]!) starts.push(at);
-      }
-    }
-    return starts;
+    return lineStartAfter(fd, Buffer.allocUnsafe(1 << 16), from, fstatSync(fd).size);
   } finally {
     closeSync(fd);
   }
@@ -348,18 +365,30 @@ function readInParts(
   card: Card,
   settings: Settings,
   reducer: WindowsReducer,
-  starts: readonly number[],
+  given: readonly number[] | null,
   workerHere: boolean,
 ): boolean {
+  const parser = new WindowsParser(path, card, settings, reducer);
+  reducer.account = parser.account;
+  let line = 1;
+  let first = 0;
+  let starts = given;
+  if (starts === null) {
+    // The first part, here, shows how the rows are ordered.
+    const probe = lineStartFrom(path, PROBE_BYTES);
+    if (probe < 0) return false;
+    const end = parser.readPart(0, probe, 1);
+    if (end.offset !== probe) return false;
+    line = end.line;
+    first = 1;
+    starts = partStarts(path, probe, reducer.enteredShare() > 0.5 ? SHUFFLED_SHARE : SORTED_SHARE);
+  }
   const bounds = [0, ...starts, Number.POSITIVE_INFINITY];
   const theirs: number[] = [];
   for (let i = 1; i + 1 < bounds.length; i += 2) theirs.push(bounds[i]!, bounds[i + 1]!);
   const worker = workerParts(path, card, settings, theirs, workerHere);
   try {
-    const parser = new WindowsParser(path, card, settings, reducer);
-    reducer.account = parser.account;
-    let line = 1;
-    for (let i = 0; i + 1 < bounds.length; i++) {
+    for (let i = first; i + 1 < bounds.length; i++) {
       const [start, until] = [bounds[i]!, bounds[i + 1]!];
       const end =
         i % 2 === 0 ? parser.readPart(start, until, line) : worker.reducePart(parser, reducer, line);
@@ -1013,6 +1042,9 @@ export class WindowsReducer implements RowSink {
   /** Accumulators of closed sittings, to serve new ones. */
   private readonly pool: SessionAccumulator[] = [];
   private replayed = 0;
+  /** Rows taken in pass 1, and those whose sitting differs from the previous row's. */
+  private seen = 0;
+  private entered = 0;
   /** The last line of a mark: the second pass reads up to it (0: no second pass). */
   lastMark = 0;
   spill: SpillBuckets | null = null;
@@ -1073,8 +1105,11 @@ export class WindowsReducer implements RowSink {
       this.setAside(s, part, line, time, offset, values);
       return;
     }
-    if ((flags & ENTERED) !== 0) this.enter(s);
-    else if ((flags & NEW_PART) !== 0) this.localPart = -1;
+    this.seen++;
+    if ((flags & ENTERED) !== 0) {
+      this.entered++;
+      this.enter(s);
+    } else if ((flags & NEW_PART) !== 0) this.localPart = -1;
     this.rows[s]!++;
     const acc = this.currentAcc;
     if (acc === null) {
@@ -1089,6 +1124,11 @@ export class WindowsReducer implements RowSink {
       return;
     }
     acc.add(time, offset, this.localPart, values);
+  }
+
+  /** The share of the rows so far whose sitting differs from the previous row's (0 for none). */
+  enteredShare(): number {
+    return this.seen === 0 ? 0 : this.entered / this.seen;
   }
 
   private enter(s: number): void {
