@@ -47,6 +47,8 @@ export function expectedText(types: readonly string[]): string {
 }
 
 export const msg = {
+  badThreads: (value: string) =>
+    `--threads must be 1 or 2; got ${JSON.stringify(value)}. Give 1 to read in one thread, or leave it out to let summarize choose.`,
   // Files
   cannotRead: (path: string, what: string, error: unknown) =>
     `cannot read the ${what} ${path}: ${reason(error)}. Check the path and that the file is readable.`,

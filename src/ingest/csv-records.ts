@@ -74,6 +74,22 @@ export interface ReadOptions {
   readonly chunkBytes?: number;
   /** Sees every byte read, in order (to hash the file in the same pass). */
   readonly onBytes?: (bytes: Buffer) => void;
+  /**
+   * Reading a part of a file (readRecordsFromFile): the byte offset to start at, which must be the
+   * start of a line (no byte order mark is looked for there), and the offset from which no record
+   * is begun: reading stops at the first record that starts at or after it, so a record that
+   * crosses it is read whole.
+   */
+  readonly start?: number;
+  readonly until?: number;
+  /** The number of the line at `start` (1 when not given). */
+  readonly firstLine?: number;
+}
+
+/** Where reading stopped: the offset of the first record not read (the file's size at its end) and its line. */
+export interface ReadEnd {
+  readonly offset: number;
+  readonly line: number;
 }
 
 const MAX_FIELDS = 4096;
@@ -304,10 +320,19 @@ function invalidUtf8Field(buf: Buffer, fieldStarts: readonly number[], end: numb
 }
 
 /** Reads every record of a file and hands it to the sink. Synchronous: the fastest way in Node. */
-export function readRecordsFromFile(path: string, sink: RecordSink, options: ReadOptions = {}): void {
+export function readRecordsFromFile(path: string, sink: RecordSink, options: ReadOptions = {}): ReadEnd {
   const fd = openSync(path, "r");
+  let at = options.start ?? 0;
   try {
-    readRecords((buf, offset, length) => readSync(fd, buf, offset, length, null), sink, options);
+    return readRecords(
+      (buf, offset, length) => {
+        const n = readSync(fd, buf, offset, length, at);
+        at += n;
+        return n;
+      },
+      sink,
+      options,
+    );
   } finally {
     closeSync(fd);
   }
@@ -373,21 +398,25 @@ export function readRecordsFromBuffer(data: Uint8Array, sink: RecordSink, option
 
 type ReadInto = (buf: Buffer, offset: number, length: number) => number;
 
-function readRecords(read: ReadInto, sink: RecordSink, options: ReadOptions): void {
+function readRecords(read: ReadInto, sink: RecordSink, options: ReadOptions): ReadEnd {
   const maxRecordBytes = options.maxRecordBytes ?? 1 << 20;
   const chunkBytes = Math.max(options.chunkBytes ?? 1 << 22, maxRecordBytes * 2 + 16);
   let buf = Buffer.allocUnsafe(chunkBytes);
   let len = 0;
   let pos = 0;
   let eof = false;
-  let line = 1;
+  let line = options.firstLine ?? 1;
   let skipping = false; // inside an over-long line being discarded
   const view = new Reader(buf);
+  /** File offset of buf[0]. */
+  let base = options.start ?? 0;
+  const until = options.until ?? Number.POSITIVE_INFINITY;
 
   const refill = (): void => {
     if (pos > 0) {
       buf.copy(buf, 0, pos, len);
       len -= pos;
+      base += pos;
       pos = 0;
     }
     if (len === buf.length) {
@@ -402,9 +431,10 @@ function readRecords(read: ReadInto, sink: RecordSink, options: ReadOptions): vo
   };
 
   refill();
-  if (len >= 3 && buf[0] === 0xef && buf[1] === 0xbb && buf[2] === 0xbf) pos = 3;
+  if (base === 0 && len >= 3 && buf[0] === 0xef && buf[1] === 0xbb && buf[2] === 0xbf) pos = 3;
 
   while (pos < len || !eof) {
+    if (base + pos >= until && !skipping) return { offset: base + pos, line };
     if (pos >= len) {
       refill();
       continue;
@@ -559,4 +589,5 @@ function readRecords(read: ReadInto, sink: RecordSink, options: ReadOptions): vo
     pos = scan.next;
     line += scan.lines + 1;
   }
+  return { offset: base + pos, line };
 }

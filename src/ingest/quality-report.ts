@@ -81,7 +81,7 @@ export function fileAccount(
 export interface QualityInput {
   readonly card: Card;
   readonly files: readonly FileAccount[];
-  readonly summaries: readonly SessionSummary[];
+  readonly summaries: Iterable<SessionSummary>;
   readonly constructsInData: readonly string[];
   readonly estimates: readonly { construct: string; windows: number; missing: number }[] | null;
   readonly rowsWithoutEstimate: number | null;

@@ -32,6 +32,15 @@ export interface AccountOptions {
   readonly strict: boolean;
 }
 
+/** A RowAccount as plain data, to pass between threads. */
+export interface AccountSnapshot {
+  readonly rowsRead: number;
+  readonly blankLines: number;
+  readonly duplicates: number;
+  readonly duplicateExamples: readonly Example[];
+  readonly reasons: readonly (readonly [RejectReason, { count: number; examples: Example[] }])[];
+}
+
 export class RowAccount {
   rowsRead = 0;
   blankLines = 0;
@@ -56,9 +65,40 @@ export class RowAccount {
     if (entry.examples.length < this.options.examplesPerReason) entry.examples.push(example);
   }
 
+  /** Counts n more rows rejected for `reason` whose examples were not kept (n ≥ 0). */
+  addRejected(reason: RejectReason, n: number): void {
+    if (n <= 0) return;
+    const entry = this.reasons.get(reason);
+    if (!entry) throw new Error(`addRejected: no example of ${reason} was counted first`);
+    entry.count += n;
+  }
+
   duplicate(example: Example): void {
     this.duplicates++;
     if (this.duplicateExamples.length < this.options.examplesPerReason) this.duplicateExamples.push(example);
+  }
+
+  snapshot(): AccountSnapshot {
+    return {
+      rowsRead: this.rowsRead,
+      blankLines: this.blankLines,
+      duplicates: this.duplicates,
+      duplicateExamples: this.duplicateExamples,
+      reasons: [...this.reasons.entries()],
+    };
+  }
+
+  /** The account a snapshot was taken of, counting on from there. */
+  static restore(file: string, options: AccountOptions, snapshot: AccountSnapshot): RowAccount {
+    const account = new RowAccount(file, options);
+    account.rowsRead = snapshot.rowsRead;
+    account.blankLines = snapshot.blankLines;
+    account.duplicates = snapshot.duplicates;
+    account.duplicateExamples.push(...snapshot.duplicateExamples);
+    for (const [reason, entry] of snapshot.reasons) {
+      account.reasons.set(reason, { count: entry.count, examples: [...entry.examples] });
+    }
+    return account;
   }
 
   get rejected(): number {

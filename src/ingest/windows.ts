@@ -23,26 +23,29 @@
  * resolved without regard to the order they came in, and reduced exactly as in pass 1. Sorted input
  * never replays and writes nothing to disk.
  */
-import { mkdtempSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { closeSync, fstatSync, mkdtempSync, openSync, readSync, statSync } from "node:fs";
+import { availableParallelism, tmpdir } from "node:os";
 import { basename, join } from "node:path";
 import type { Card, Settings } from "../config/types.js";
 import { InputError } from "../errors.js";
 import { msg, type RejectReason } from "../messages.js";
 import { ConstructPlan, type PartIds, SessionAccumulator } from "../summaries/session-accumulator.js";
-import { compareSummaries, type SessionSummary } from "../summaries/types.js";
+import { SummaryStore } from "../summaries/summary-store.js";
+import type { SessionSummary } from "../summaries/types.js";
 import { ByteKeyTable } from "./byte-key-table.js";
 import {
   findField,
+  type ReadEnd,
   type RecordProblem,
   type RecordSink,
   type RecordView,
   readRecordsFromFile,
 } from "./csv-records.js";
 import { EMPTY, parseNumber } from "./number.js";
-import { location, RowAccount } from "./quality.js";
+import { type Example, location, RowAccount } from "./quality.js";
 import { SpillBuckets } from "./replay-spill.js";
 import { parseTimestamp, TimestampReader } from "./timestamp.js";
+import { workerParts } from "./windows-thread.js";
 
 const REQUIRED = ["student_id", "class_id", "unit_id", "session_id", "window_start"] as const;
 const OPTIONAL = ["school_id", "activity_id"] as const;
@@ -67,6 +70,9 @@ export interface ColumnAccount {
 
 export interface WindowsResult {
   readonly file: string;
+  /** The summaries in columns, in the order of compareSummaries (summarize writes them from here). */
+  readonly store: SummaryStore;
+  /** The same as objects, made when first asked for. */
   readonly summaries: SessionSummary[];
   readonly account: RowAccount;
   readonly columns: ColumnAccount;
@@ -92,7 +98,7 @@ const SITTING_SLOTS = 0b000011;
 const PART_SLOTS = 0b111100;
 const ALL_SLOTS = 0b111111;
 
-interface Layout {
+export interface Layout {
   readonly fieldCount: number;
   /** Column of each id slot (school and activity -1 when absent). */
   readonly ids: Int32Array;
@@ -228,38 +234,310 @@ const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
 /** Thrown to end the second pass once it has passed the last line it needs. */
 const STOP = new Error("stop");
 
+export interface WindowsOptions {
+  /** Sees every byte of the file, in order (to hash it in the same pass); keeps the reading in this thread. */
+  readonly onBytes?: ((bytes: Buffer) => void) | undefined;
+  /**
+   * 2 to have a worker thread parse parts of the file while this thread reads the others
+   * (ROUND_BYTES, windows-thread.ts); 1 for one thread. Default: defaultThreads.
+   */
+  readonly threads?: number | undefined;
+  /**
+   * For tests: where the parts start (line starts, ascending), the first part [0, parts[0]) read
+   * here, the next by the worker, and so on alternately; and the worker's parser run in this thread.
+   */
+  readonly parts?: readonly number[] | undefined;
+  readonly workerHere?: boolean | undefined;
+}
+
+/**
+ * Two threads read the file in rounds of ROUND_BYTES: the worker parses a part of a round, which
+ * this thread then reduces, and this thread parses and reduces the rest. The worker parses its next
+ * part while this thread reads its own, so the rows waiting between them stay within a round (a few
+ * MB), whatever the file's size. This thread's share depends on the order of the rows, which
+ * this thread sees in the first PROBE_BYTES: sorted rows cost the worker less to parse (ids repeat
+ * the previous row's) than this thread to reduce, so it takes a small share; rows that change
+ * sitting on almost every row (shuffled) cost the parser lookups, and this thread takes more.
+ */
+const ROUND_BYTES = 32 * 1024 * 1024;
+const PROBE_BYTES = 1024 * 1024;
+const SORTED_SHARE = 0.15;
+const SHUFFLED_SHARE = 0.35;
+
+/** Files from this size on are read by two threads when two cores are there: below it, starting a worker does not pay. */
+const THREAD_MIN_BYTES = 32 * 1024 * 1024;
+
+/** 2 for a file of at least THREAD_MIN_BYTES on a machine with two cores or more, else 1. */
+export function defaultThreads(path: string): number {
+  let size = 0;
+  try {
+    size = statSync(path).size;
+  } catch {
+    return 1; // the reader gives the message
+  }
+  return size >= THREAD_MIN_BYTES && availableParallelism() >= 2 ? 2 : 1;
+}
+
 export function summarizeWindowsFile(
   path: string,
   card: Card,
   settings: Settings,
-  onBytes?: (bytes: Buffer) => void,
+  options: WindowsOptions | ((bytes: Buffer) => void) = {},
 ): WindowsResult {
-  const ingest = new WindowsIngest(path, card, settings);
+  const opts: WindowsOptions = typeof options === "function" ? { onBytes: options } : options;
+  const threads = opts.onBytes ? 1 : (opts.threads ?? defaultThreads(path));
+  if (threads > 1) {
+    const reducer = new WindowsReducer(path, card, settings);
+    try {
+      if (readInParts(path, card, settings, reducer, opts.parts ?? null, opts.workerHere === true)) {
+        reducer.replay();
+        return reducer.result();
+      }
+    } finally {
+      reducer.spill?.remove();
+    }
+  }
+  const reducer = new WindowsReducer(path, card, settings);
   try {
-    ingest.read(onBytes); // pass 1
-    ingest.closeAll();
-    ingest.readAgain(); // the rows of marked sittings from before their mark
-    ingest.replay();
-    return ingest.result();
+    readHere(path, card, settings, reducer, opts.onBytes);
+    reducer.replay();
+    return reducer.result();
   } finally {
-    ingest.spill?.remove();
+    reducer.spill?.remove();
   }
 }
 
-class WindowsIngest {
+/**
+ * The starts of the parts from `from` on (see ROUND_BYTES), the worker's first, each moved to the
+ * next line start; `share` is this thread's share of a round.
+ */
+function partStarts(path: string, from: number, share: number): number[] {
+  const fd = openSync(path, "r");
+  try {
+    const size = fstatSync(fd).size;
+    const starts = [from];
+    const buf = Buffer.allocUnsafe(1 << 16);
+    for (let round = from; round < size; round += ROUND_BYTES) {
+      for (const offset of [round + ROUND_BYTES * (1 - share), round + ROUND_BYTES]) {
+        const at = lineStartAfter(fd, buf, Math.floor(offset), size);
+        if (at < 0) return starts;
+        if (at > starts[starts.length - 1]!) starts.push(at);
+      }
+    }
+    return starts;
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/** The start of the first line at or after `from`, or -1 (see lineStartAfter). */
+function lineStartFrom(path: string, from: number): number {
+  let fd: number;
+  try {
+    fd = openSync(path, "r");
+  } catch {
+    return -1; // the reader gives the message
+  }
+  try {
+    return lineStartAfter(fd, Buffer.allocUnsafe(1 << 16), from, fstatSync(fd).size);
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/** The offset just after the first line feed at or after `from`; -1 when there is none, or it ends the file. */
+function lineStartAfter(fd: number, buf: Buffer, from: number, size: number): number {
+  for (let at = from; at < size; at += buf.length) {
+    const n = readSync(fd, buf, 0, buf.length, at);
+    const nl = buf.subarray(0, n).indexOf(10);
+    if (nl >= 0) return at + nl + 1 < size ? at + nl + 1 : -1;
+  }
+  return -1;
+}
+
+/**
+ * Pass 1 in parts, alternately here and in the worker (windows-thread.ts), then the second pass
+ * here. False when a record crosses from one part into the next (a quoted field with a line
+ * break), which only reading in one go gets right.
+ */
+function readInParts(
+  path: string,
+  card: Card,
+  settings: Settings,
+  reducer: WindowsReducer,
+  given: readonly number[] | null,
+  workerHere: boolean,
+): boolean {
+  const parser = new WindowsParser(path, card, settings, reducer);
+  reducer.account = parser.account;
+  let line = 1;
+  let first = 0;
+  let starts = given;
+  if (starts === null) {
+    // The first part, here, shows how the rows are ordered.
+    const probe = lineStartFrom(path, PROBE_BYTES);
+    if (probe < 0) return false;
+    const end = parser.readPart(0, probe, 1);
+    if (end.offset !== probe) return false;
+    line = end.line;
+    first = 1;
+    starts = partStarts(path, probe, reducer.enteredShare() > 0.5 ? SHUFFLED_SHARE : SORTED_SHARE);
+  }
+  const bounds = [0, ...starts, Number.POSITIVE_INFINITY];
+  const theirs: number[] = [];
+  for (let i = 1; i + 1 < bounds.length; i += 2) theirs.push(bounds[i]!, bounds[i + 1]!);
+  const worker = workerParts(path, card, settings, theirs, workerHere);
+  try {
+    for (let i = first; i + 1 < bounds.length; i++) {
+      const [start, until] = [bounds[i]!, bounds[i + 1]!];
+      const end =
+        i % 2 === 0 ? parser.readPart(start, until, line) : worker.reducePart(parser, reducer, line);
+      if (until !== Number.POSITIVE_INFINITY && end.offset !== until) return false;
+      line = end.line;
+    }
+    if (reducer.account.rowsRead === 0) throw new InputError(msg.headerOnly(path, "windows file"));
+    reducer.closeAll();
+    if (reducer.lastMark > 0) {
+      reducer.pass = 1;
+      parser.readAgain(reducer.markLine, reducer.lastMark);
+    }
+    return true;
+  } finally {
+    worker.close();
+  }
+}
+
+/** Both passes in this thread: the parser hands each row straight to the reducer. */
+function readHere(
+  path: string,
+  card: Card,
+  settings: Settings,
+  reducer: WindowsReducer,
+  onBytes?: (bytes: Buffer) => void,
+): void {
+  const parser = new WindowsParser(path, card, settings, reducer);
+  reducer.account = parser.account;
+  parser.read(onBytes); // pass 1
+  reducer.closeAll();
+  // The rows of marked sittings from before their mark.
+  if (reducer.lastMark > 0) {
+    reducer.pass = 1;
+    parser.readAgain(reducer.markLine, reducer.lastMark);
+  }
+}
+
+/** Where the parser's rows go: the reducer, or a worker's batches to it. */
+export interface RowSink {
+  header(layout: Layout, present: readonly boolean[]): void;
+  /** A new sitting, numbered in order of first appearance. */
+  sitting(s: number, studentId: string, sessionId: string): void;
+  /** A new part (class, school, unit, activity), numbered in order of first appearance. */
+  part(id: number, ids: PartIds): void;
+  /**
+   * A valid row of sitting s and part `part`; `flags` say whether the sitting (ENTERED) or the
+   * part (NEW_PART) differ from the previous row's. `values` is reused for the next row.
+   */
+  row(
+    s: number,
+    part: number,
+    time: number,
+    offset: number,
+    line: number,
+    values: Float64Array,
+    flags: number,
+  ): void;
+}
+
+/** A rejected row as the parser found it, its line counted in the part of the file it read. */
+export interface RawReject {
+  readonly reason: RejectReason;
+  readonly line: number;
+  readonly column: number | undefined;
+  readonly name: string | undefined;
+  readonly value: string | undefined;
+  readonly detail: string | undefined;
+}
+
+/** A later part's rejections: the first examples of each reason, in line order, and each reason's count. */
+export interface DeferredRejects {
+  readonly examples: RawReject[];
+  readonly counts: [RejectReason, number][];
+}
+
+function deferReject(d: DeferredRejects, raw: RawReject, perReason: number): void {
+  let entry = d.counts.find((c) => c[0] === raw.reason);
+  if (!entry) {
+    entry = [raw.reason, 0];
+    d.counts.push(entry);
+  }
+  // In strict mode only the first rejection matters; keep one example even with examples_per_reason 0.
+  if (entry[1] < Math.max(1, perReason)) d.examples.push(raw);
+  entry[1]++;
+}
+
+/** The account's example for a rejection, its line moved on by `lineBase`. */
+export function rejectExample(file: string, raw: RawReject, lineBase: number): Example {
+  const { name, value, detail } = raw;
+  return {
+    at: location(file, raw.line + lineBase, raw.column),
+    ...(name === undefined ? {} : { column: name }),
+    ...(value === undefined ? {} : { value: value.length > 80 ? `${value.slice(0, 77)}...` : value }),
+    ...(detail === undefined ? {} : { detail }),
+  };
+}
+
+/**
+ * Counts a later part's rejections in the account (after the rows before them), in line order, so
+ * that in strict mode the first of them stops the run, as it would reading in one go.
+ */
+export function countDeferred(account: RowAccount, d: DeferredRejects, lineBase: number): void {
+  const shown = new Map<RejectReason, number>();
+  for (const raw of d.examples) {
+    account.reject(raw.reason, rejectExample(account.file, raw, lineBase));
+    shown.set(raw.reason, (shown.get(raw.reason) ?? 0) + 1);
+  }
+  for (const [reason, count] of d.counts) account.addRejected(reason, count - (shown.get(reason) ?? 0));
+}
+
+/** Field columns of ids laid end to end (adoptSitting, adoptPart). */
+const ADOPT_COLS = Int32Array.from([0, 1, 2, 3]);
+
+function idBytes(ids: readonly string[]): { buf: Buffer; starts: Int32Array; ends: Int32Array } {
+  const parts = ids.map((id) => Buffer.from(id, "utf8"));
+  const starts = new Int32Array(ids.length);
+  const ends = new Int32Array(ids.length);
+  let at = 0;
+  parts.forEach((b, i) => {
+    starts[i] = at;
+    at += b.length;
+    ends[i] = at;
+  });
+  return { buf: Buffer.concat(parts), starts, ends };
+}
+
+/** RowSink.row flags. */
+export const ENTERED = 1;
+export const NEW_PART = 2;
+
+/**
+ * Reading and checking: every row is validated here, rejections counted, ids looked up and
+ * numbered; valid rows go to a RowSink. Holds nothing per sitting but its ids' bytes and the part
+ * of its last row, so that it can run in a worker apart from the reducer.
+ */
+export class WindowsParser {
   readonly file: string;
   readonly account: RowAccount;
   private readonly maxBytes: number;
   private readonly maxRecordBytes: number;
   private layout: Layout | null = null;
-  private plan: ConstructPlan | null = null;
   private values = new Float64Array(0);
   private readonly timeOut = { offsetMinutes: 0 };
   private sawHeader = false;
   /** 0 in pass 1, 1 when reading again. */
   private pass = 0;
-  /** In the second pass: the line at which to stop. */
+  /** In the second pass: the line at which to stop, and per sitting the line of its mark (0: none). */
   private stopLine = 0;
+  private markLine: Int32Array = new Int32Array(0);
   /** Field ranges of the row read by the fast path. */
   private starts = new Int32Array(0);
   private ends = new Int32Array(0);
@@ -269,71 +547,141 @@ class WindowsIngest {
   // Sittings by number (order of first appearance) and parts (global numbers).
   private readonly sittingKeys = new ByteKeyTable(2);
   private readonly partKeys = new ByteKeyTable(4);
-  private readonly partIds: PartIds[] = [];
-  private readonly students: string[] = [];
-  private readonly sessions: string[] = [];
-  private state = new Int8Array(1024);
-  /** Rows that passed validation, per sitting. */
-  private rows = new Int32Array(1024);
-  /** Per sitting marked for replay: the line of the mark when rows before it must be read again, else 0. */
-  private markLine = new Int32Array(1024);
-  private partCount = new Int32Array(1024);
   /** Per sitting: the part of its last row (-1 before any). */
   private lastPart = new Int32Array(1024).fill(-1);
-  private withoutEstimate = new Int32Array(1024);
-  private readonly done: (SessionSummary[] | undefined)[] = [];
-  private readonly open = new Map<number, SessionAccumulator>();
-  /** Per sitting: when it was last entered (a count of entries), to close the least recent. */
-  private lastSeen = new Float64Array(1024);
-  private entries = 0;
-  /** Accumulators of closed sittings, to serve new ones. */
-  private readonly pool: SessionAccumulator[] = [];
-  private replayed = 0;
-  private lastMark = 0;
-  spill: SpillBuckets | null = null;
-
-  /** The current row's sitting, its accumulator (open sittings, pass 1), part, and part in the sitting. */
+  /** The current row's sitting and part. */
   private current = -1;
-  private currentAcc: SessionAccumulator | null = null;
   private currentPart = -1;
-  private localPart = -1;
+  /**
+   * A parser of parts of the file that does not know the lines before them (in a worker): it counts
+   * each part's lines from 1 and keeps its rejections with those lines (takePart), to be counted
+   * with the right lines by the thread that knows them.
+   */
+  private deferred: DeferredRejects | null;
 
   constructor(
     private readonly path: string,
     private readonly card: Card,
     private readonly settings: Settings,
+    private readonly out: RowSink,
+    options: { deferRejections?: boolean } = {},
   ) {
     this.file = basename(path);
     this.account = new RowAccount(this.file, settings);
     this.maxBytes = settings.maxFieldChars * 4;
     this.maxRecordBytes = Math.max(1 << 20, this.maxBytes * 64);
+    this.deferred = options.deferRejections ? { examples: [], counts: [] } : null;
+  }
+
+  /**
+   * The sitting numbered s by the parser of another part of the file, by its ids: its number here,
+   * taken and announced (RowSink.sitting) when new, as if its row had been read here.
+   */
+  adoptSitting(studentId: string, sessionId: string): number {
+    const { buf, starts, ends } = idBytes([studentId, sessionId]);
+    const cols = ADOPT_COLS.subarray(0, 2);
+    let s = this.sittingKeys.find(buf, starts, ends, cols);
+    if (s >= 0) return s;
+    s = this.sittingKeys.add(buf, starts, ends, cols);
+    this.growLastPart(s);
+    this.out.sitting(s, studentId, sessionId);
+    return s;
+  }
+
+  /** adoptSitting for a part. */
+  adoptPart(ids: PartIds): number {
+    const { buf, starts, ends } = idBytes([ids.classId, ids.schoolId, ids.unitId, ids.activityId]);
+    let part = this.partKeys.find(buf, starts, ends, ADOPT_COLS);
+    if (part >= 0) return part;
+    part = this.partKeys.add(buf, starts, ends, ADOPT_COLS);
+    this.out.part(part, ids);
+    return part;
+  }
+
+  private growLastPart(s: number): void {
+    if (s < this.lastPart.length) return;
+    const lastPart = new Int32Array(Math.max(s + 1, this.lastPart.length * 2)).fill(-1);
+    lastPart.set(this.lastPart);
+    this.lastPart = lastPart;
+  }
+
+  /** Second pass: the rows of marked sittings before their marks (markLine, by sitting), up to stopLine. */
+  readAgain(markLine: Int32Array, stopLine: number): void {
+    if (this.deferred) throw new Error("the second pass reads the whole file, with the first part's parser");
+    this.pass = 1;
+    this.markLine = markLine;
+    this.stopLine = stopLine;
+    this.read();
+  }
+
+  /**
+   * Pass 1 over the part of the file from byte `start` (a line start, whose line is `firstLine`)
+   * up to the first record that begins at or after `until`; returns where it stopped. The header
+   * is read first from the top of the file when this parser has not seen it.
+   */
+  readPart(start: number, until: number, firstLine: number): ReadEnd {
+    this.current = -1;
+    this.currentPart = -1;
+    this.prev.valid = false;
+    if (start > 0 && this.layout === null) {
+      this.sawHeader = false;
+      this.headerOnly = true;
+      this.readRange({});
+      this.headerOnly = false;
+    }
+    if (start === 0) this.sawHeader = false;
+    const end = this.readRange({ start, until, firstLine });
+    if (!this.sawHeader) throw new InputError(msg.emptyFile(this.path, "windows file"));
+    return end;
+  }
+
+  /** The rows read, blank lines and rejections of the parts read since the last call, which it clears. */
+  takePart(): { rowsRead: number; blankLines: number; deferred: DeferredRejects } {
+    const out = {
+      rowsRead: this.account.rowsRead,
+      blankLines: this.account.blankLines,
+      deferred: this.deferred!,
+    };
+    this.account.rowsRead = 0;
+    this.account.blankLines = 0;
+    this.deferred = { examples: [], counts: [] };
+    return out;
   }
 
   // ---------------------------------------------------------------------------------------------
   // Reading.
 
+  /** Reads the whole file (pass 1, or the second pass up to its stop line). */
   read(onBytes?: (bytes: Buffer) => void): void {
     this.sawHeader = false;
     this.current = -1;
-    this.currentAcc = null;
     this.currentPart = -1;
     this.prev.valid = false;
+    this.readRange(this.pass === 0 && onBytes ? { onBytes } : {});
+    if (this.pass > 0) return;
+    if (!this.sawHeader) throw new InputError(msg.emptyFile(this.path, "windows file"));
+    if (this.account.rowsRead === 0) throw new InputError(msg.headerOnly(this.path, "windows file"));
+  }
+
+  /** Pass 1 over a part of the file, or the header alone: no row yet read. */
+  private headerOnly = false;
+
+  private readRange(range: {
+    onBytes?: (bytes: Buffer) => void;
+    start?: number;
+    until?: number;
+    firstLine?: number;
+  }): ReadEnd {
     try {
-      readRecordsFromFile(this.path, this.sink(), {
-        maxRecordBytes: this.maxRecordBytes,
-        ...(this.pass === 0 && onBytes ? { onBytes } : {}),
-      });
+      return readRecordsFromFile(this.path, this.sink(), { maxRecordBytes: this.maxRecordBytes, ...range });
     } catch (error) {
-      if (error === STOP) return;
+      if (error === STOP) return { offset: -1, line: -1 };
       const code = (error as { code?: string }).code;
       if (code !== undefined && typeof code === "string" && code.startsWith("E")) {
         throw new InputError(msg.cannotRead(this.path, "windows file", error));
       }
       throw error;
     }
-    if (this.pass > 0) return;
-    if (!this.sawHeader) throw new InputError(msg.emptyFile(this.path, "windows file"));
-    if (this.account.rowsRead === 0) throw new InputError(msg.headerOnly(this.path, "windows file"));
   }
 
   private sink(): RecordSink {
@@ -351,6 +699,7 @@ class WindowsIngest {
           this.sawHeader = true;
           if (this.pass > 0) return;
           this.header(view);
+          if (this.headerOnly) throw STOP;
           return;
         }
         if (this.pass > 0 && view.line >= this.stopLine) throw STOP;
@@ -369,7 +718,7 @@ class WindowsIngest {
         this.reject(problem.kind, problem.line, problem.column, name, problem.value, detail);
       },
       blank: () => {
-        if (this.pass === 0) this.account.blankLines++;
+        if (this.pass === 0 && !this.headerOnly) this.account.blankLines++;
       },
     };
   }
@@ -378,10 +727,10 @@ class WindowsIngest {
     const header = Array.from({ length: view.count }, (_, i) => view.text(i));
     const built = layoutOf(this.file, header, this.card);
     this.layout = built.layout;
-    this.plan = new ConstructPlan(this.card, built.present);
-    this.values = new Float64Array(this.plan.keys.length);
+    this.values = new Float64Array(built.layout.constructCols.length);
     this.starts = new Int32Array(built.layout.fieldCount);
     this.ends = new Int32Array(built.layout.fieldCount);
+    this.out.header(built.layout, built.present);
   }
 
   private reject(
@@ -393,12 +742,9 @@ class WindowsIngest {
     detail?: string,
   ): void {
     if (this.pass > 0) return; // counted in pass 1
-    this.account.reject(reason, {
-      at: location(this.file, line, column),
-      ...(name === undefined ? {} : { column: name }),
-      ...(value === undefined ? {} : { value: value.length > 80 ? `${value.slice(0, 77)}...` : value }),
-      ...(detail === undefined ? {} : { detail }),
-    });
+    const raw: RawReject = { reason, line, column, name, value, detail };
+    if (this.deferred) deferReject(this.deferred, raw, this.settings.examplesPerReason);
+    else this.account.reject(reason, rejectExample(this.file, raw, 0));
   }
 
   /**
@@ -544,7 +890,7 @@ class WindowsIngest {
       p = q + 1;
     }
     const s = this.sittingKeys.find(buf, starts, ends, lay.sittingCols);
-    return s < 0 || this.state[s] !== REPLAY || line >= this.markLine[s]!;
+    return s < 0 || !(line < this.markLine[s]!);
   }
 
   /** The ordinary path: a record from the CSV reader, checked field by field. */
@@ -620,7 +966,11 @@ class WindowsIngest {
     changed: number,
   ): void {
     const lay = this.layout!;
-    if (this.current < 0 || (changed & SITTING_SLOTS) !== 0) this.enterSitting(buf, starts, ends);
+    let flags = 0;
+    if (this.current < 0 || (changed & SITTING_SLOTS) !== 0) {
+      this.enterSitting(buf, starts, ends);
+      flags |= ENTERED;
+    }
     if (this.currentPart < 0 || (changed & PART_SLOTS) !== 0) {
       // Unsorted input changes ids on every row, but a sitting's rows mostly share one part: try
       // the part of the sitting's previous row before looking the part up.
@@ -631,7 +981,7 @@ class WindowsIngest {
           : this.partKeys.find(buf, starts, ends, lay.partCols);
       if (part < 0) {
         part = this.partKeys.add(buf, starts, ends, lay.partCols);
-        this.partIds.push({
+        this.out.part(part, {
           classId: this.partKeys.text(part, 0),
           schoolId: this.partKeys.text(part, 1),
           unitId: this.partKeys.text(part, 2),
@@ -640,28 +990,11 @@ class WindowsIngest {
       }
       this.currentPart = part;
       this.lastPart[this.current] = part;
-      this.localPart = -1;
+      flags |= NEW_PART;
     }
     if (changed !== 0) this.prev.remember(buf, starts, ends, lay.ids);
-    const s = this.current;
-    if (this.pass > 0) {
-      if (this.state[s] === REPLAY && line < this.markLine[s]!) this.setAside(s, line, time, offset);
-      return;
-    }
-    this.rows[s]!++;
-    const acc = this.currentAcc;
-    if (acc === null) {
-      if (this.state[s] === CLOSED) this.mark(s, line);
-      this.setAside(s, line, time, offset);
-      return;
-    }
-    if (this.localPart < 0) this.localPart = acc.partIndex(this.currentPart, this.partIds[this.currentPart]!);
-    if (time <= acc.lastTime) {
-      this.mark(s, line);
-      this.setAside(s, line, time, offset);
-      return;
-    }
-    acc.add(time, offset, this.localPart, this.values);
+    if (this.pass > 0 && !(line < this.markLine[this.current]!)) return;
+    this.out.row(this.current, this.currentPart, time, offset, line, this.values, flags);
   }
 
   private enterSitting(buf: Buffer, starts: Int32Array, ends: Int32Array): void {
@@ -670,12 +1003,139 @@ class WindowsIngest {
     if (s < 0) {
       if (this.pass > 0) throw new Error("a sitting appeared only when the file was read again");
       s = this.sittingKeys.add(buf, starts, ends, cols);
-      this.newSitting(s);
+      this.growLastPart(s);
+      this.out.sitting(s, this.sittingKeys.text(s, 0), this.sittingKeys.text(s, 1));
     }
+    this.current = s;
+  }
+}
+
+/**
+ * Reducing: each sitting's rows, in the order the parser found them, into its accumulator while
+ * they come in time order; sittings marked for replay set aside and replayed; the result.
+ */
+export class WindowsReducer implements RowSink {
+  readonly file: string;
+  /** The parser's account (after pass 1, when the parser ran in a worker); the replay adds to it. */
+  account: RowAccount;
+  private readonly maxRecordBytes: number;
+  private layout: Layout | null = null;
+  private plan: ConstructPlan | null = null;
+  /** 0 in pass 1, 1 when reading again (rows are only set aside). */
+  pass = 0;
+  private readonly partIds: PartIds[] = [];
+  private readonly students: string[] = [];
+  private readonly sessions: string[] = [];
+  private state = new Int8Array(1024);
+  /** Rows that passed validation, per sitting. */
+  private rows = new Int32Array(1024);
+  /** Per sitting marked for replay: the line of the mark when rows before it must be read again, else 0. */
+  markLine = new Int32Array(1024);
+  private partCount = new Int32Array(1024);
+  private withoutEstimate = new Int32Array(1024);
+  /** Summaries of closed sittings (a sitting kept again replaces its rows). */
+  private store: SummaryStore;
+  private readonly open = new Map<number, SessionAccumulator>();
+  /** Per sitting: when it was last entered (a count of entries), to close the least recent. */
+  private lastSeen = new Float64Array(1024);
+  private entries = 0;
+  /** Accumulators of closed sittings, to serve new ones. */
+  private readonly pool: SessionAccumulator[] = [];
+  private replayed = 0;
+  /** Rows taken in pass 1, and those whose sitting differs from the previous row's. */
+  private seen = 0;
+  private entered = 0;
+  /** The last line of a mark: the second pass reads up to it (0: no second pass). */
+  lastMark = 0;
+  spill: SpillBuckets | null = null;
+
+  /** The current row's sitting, its accumulator (open sittings, pass 1), and its part in the sitting. */
+  private current = -1;
+  private currentAcc: SessionAccumulator | null = null;
+  private localPart = -1;
+
+  constructor(
+    private readonly path: string,
+    private readonly card: Card,
+    private readonly settings: Settings,
+  ) {
+    this.file = basename(path);
+    this.account = new RowAccount(this.file, settings);
+    this.maxRecordBytes = Math.max(1 << 20, settings.maxFieldChars * 4 * 64);
+    this.store = new SummaryStore([], this.students, this.sessions, this.partIds);
+  }
+
+  header(layout: Layout, present: readonly boolean[]): void {
+    this.layout = layout;
+    this.plan = new ConstructPlan(this.card, present);
+    this.store = new SummaryStore(this.plan.keys, this.students, this.sessions, this.partIds);
+  }
+
+  part(id: number, ids: PartIds): void {
+    this.partIds[id] = ids;
+  }
+
+  sitting(s: number, studentId: string, sessionId: string): void {
+    if (s >= this.state.length) {
+      const size = Math.max(s + 1, this.state.length * 2);
+      this.state = growInt8(this.state, size);
+      this.rows = growInt32(this.rows, size);
+      this.markLine = growInt32(this.markLine, size);
+      this.partCount = growInt32(this.partCount, size);
+      this.withoutEstimate = growInt32(this.withoutEstimate, size);
+      const seen = new Float64Array(size);
+      seen.set(this.lastSeen);
+      this.lastSeen = seen;
+    }
+    this.students[s] = studentId;
+    this.sessions[s] = sessionId;
+  }
+
+  row(
+    s: number,
+    part: number,
+    time: number,
+    offset: number,
+    line: number,
+    values: Float64Array,
+    flags: number,
+  ): void {
+    if (this.pass > 0) {
+      // The parser passes on only the rows wanted again.
+      this.setAside(s, part, line, time, offset, values);
+      return;
+    }
+    this.seen++;
+    if ((flags & ENTERED) !== 0) {
+      this.entered++;
+      this.enter(s);
+    } else if ((flags & NEW_PART) !== 0) this.localPart = -1;
+    this.rows[s]!++;
+    const acc = this.currentAcc;
+    if (acc === null) {
+      if (this.state[s] === CLOSED) this.mark(s, line);
+      this.setAside(s, part, line, time, offset, values);
+      return;
+    }
+    if (this.localPart < 0) this.localPart = acc.partIndex(part, this.partIds[part]!);
+    if (time <= acc.lastTime) {
+      this.mark(s, line);
+      this.setAside(s, part, line, time, offset, values);
+      return;
+    }
+    acc.add(time, offset, this.localPart, values);
+  }
+
+  /** The share of the rows so far whose sitting differs from the previous row's (0 for none). */
+  enteredShare(): number {
+    return this.seen === 0 ? 0 : this.entered / this.seen;
+  }
+
+  private enter(s: number): void {
     this.current = s;
     this.localPart = -1;
     this.currentAcc = null;
-    if (this.pass > 0 || this.state[s] !== OPEN) return;
+    if (this.state[s] !== OPEN) return;
     this.lastSeen[s] = ++this.entries;
     let acc = this.open.get(s);
     if (!acc) {
@@ -701,25 +1161,6 @@ class WindowsIngest {
     for (const s of [...this.open.keys()]) if (s !== keep && this.lastSeen[s]! <= cut) this.close(s);
   }
 
-  private newSitting(s: number): void {
-    if (s === this.state.length) {
-      const size = s * 2;
-      this.state = growInt8(this.state, size);
-      this.rows = growInt32(this.rows, size);
-      this.markLine = growInt32(this.markLine, size);
-      this.partCount = growInt32(this.partCount, size);
-      this.withoutEstimate = growInt32(this.withoutEstimate, size);
-      const lastPart = new Int32Array(size).fill(-1);
-      lastPart.set(this.lastPart);
-      this.lastPart = lastPart;
-      const seen = new Float64Array(size);
-      seen.set(this.lastSeen);
-      this.lastSeen = seen;
-    }
-    this.students.push(this.sittingKeys.text(s, 0));
-    this.sessions.push(this.sittingKeys.text(s, 1));
-  }
-
   /** Reduces an open sitting to its summaries and frees its accumulator. */
   private close(s: number): void {
     const acc = this.open.get(s)!;
@@ -736,7 +1177,7 @@ class WindowsIngest {
   }
 
   private keep(s: number, acc: SessionAccumulator): void {
-    this.done[s] = acc.finish();
+    acc.finishInto(this.store, s);
     this.partCount[s] = acc.parts.length;
     this.withoutEstimate[s] = acc.rowsWithoutEstimate;
   }
@@ -755,7 +1196,7 @@ class WindowsIngest {
       this.open.delete(s);
       this.pool.push(acc);
     }
-    this.done[s] = undefined;
+    this.store.drop(s);
     if (s === this.current) this.currentAcc = null;
     if (this.spill === null) {
       const dir = mkdtempSync(join(tmpdir(), "engagement-report-replay-"));
@@ -763,16 +1204,15 @@ class WindowsIngest {
     }
   }
 
-  private setAside(s: number, line: number, time: number, offset: number): void {
-    this.spill!.write(s, this.currentPart, line, time, offset, this.values);
-  }
-
-  /** Second pass, when needed: the rows of marked sittings from before their mark. */
-  readAgain(): void {
-    if (this.lastMark === 0) return;
-    this.pass = 1;
-    this.stopLine = this.lastMark;
-    this.read();
+  private setAside(
+    s: number,
+    part: number,
+    line: number,
+    time: number,
+    offset: number,
+    values: Float64Array,
+  ): void {
+    this.spill!.write(s, part, line, time, offset, values);
   }
 
   // ---------------------------------------------------------------------------------------------
@@ -786,7 +1226,7 @@ class WindowsIngest {
     const stopOnConflict = this.settings.strict ? this.conflictStop() : null;
     const budgetRows = Math.max(1, Math.floor(REPLAY_BUDGET_BYTES / (8 + 4 + 4 + 4 + 8 * k)));
     const rows = new ReplayRows(k);
-    const n = this.sittingKeys.size;
+    const n = this.students.length;
     for (let b = 0; b < spill.bucketCount; b++) {
       const lo = b << spill.shift;
       const hi = Math.min(n, lo + (1 << spill.shift));
@@ -946,35 +1386,24 @@ class WindowsIngest {
 
   result(): WindowsResult {
     const plan = this.plan!;
-    const n = this.sittingKeys.size;
-    const constructIndex = new Map(plan.keys.map((key, i) => [key, i]));
-    // Sittings by student and session, then each sitting's rows in order: the same order as sorting
-    // every summary with compareSummaries (two sittings never share student and session), at the
-    // cost of sorting sittings only.
-    const byIds = Array.from({ length: n }, (_, s) => s);
-    const cmp = (a: string, b: string): number => (a < b ? -1 : a > b ? 1 : 0);
-    byIds.sort(
-      (a, b) => cmp(this.students[a]!, this.students[b]!) || cmp(this.sessions[a]!, this.sessions[b]!),
-    );
-    const order = compareSummaries(constructIndex);
-    const summaries: SessionSummary[] = [];
-    const estimated = new Float64Array(plan.keys.length);
+    const n = this.students.length;
     let spanning = 0;
     let rowsWithoutEstimate = 0;
-    for (const s of byIds) {
+    for (let s = 0; s < n; s++) {
       if (this.partCount[s]! > 1) spanning++;
       rowsWithoutEstimate += this.withoutEstimate[s]!;
-      const rows = this.done[s] ?? [];
-      rows.sort(order);
-      for (const r of rows) {
-        summaries.push(r);
-        estimated[constructIndex.get(r.construct)!]! += r.windows;
-      }
     }
+    const estimated = this.store.windowsByConstruct();
+    const store = this.store;
+    let summaries: SessionSummary[] | null = null;
     const lay = this.layout!;
     return {
       file: this.file,
-      summaries,
+      store,
+      get summaries() {
+        summaries ??= store.toArray();
+        return summaries;
+      },
       account: this.account,
       columns: lay.columns,
       rowsWithoutEstimate,

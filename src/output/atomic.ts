@@ -83,20 +83,35 @@ export async function writeFolderAtomically<T>(
   return result;
 }
 
-/** Writes text chunks to a file (large outputs are never one string). */
-export function writeChunks(path: string, content: string | Uint8Array | Iterable<string>): void {
+function writeChunk(fd: number, chunk: string | Uint8Array): void {
+  if (typeof chunk === "string") {
+    writeSync(fd, chunk);
+    return;
+  }
+  let at = 0;
+  while (at < chunk.length) at += writeSync(fd, chunk, at, chunk.length - at);
+}
+
+/** Writes text chunks (or bytes) to a file (large outputs are never one string). */
+export function writeChunks(
+  path: string,
+  content: string | Uint8Array | Iterable<string | Uint8Array>,
+): void {
   const fd = openSync(path, "w");
   try {
     if (typeof content === "string") writeSync(fd, content);
     else if (content instanceof Uint8Array) writeSync(fd, content);
-    else for (const chunk of content) writeSync(fd, chunk);
+    else for (const chunk of content) writeChunk(fd, chunk);
   } finally {
     closeSync(fd);
   }
 }
 
 /** Writes one file through a temporary name in the same folder, then renames it into place. */
-export function writeFileAtomically(target: string, content: string | Uint8Array | Iterable<string>): void {
+export function writeFileAtomically(
+  target: string,
+  content: string | Uint8Array | Iterable<string | Uint8Array>,
+): void {
   const file = resolve(target);
   if (!existsSync(dirname(file)))
     throw new UsageError(`--out ${target}: the folder ${dirname(file)} does not exist.`);

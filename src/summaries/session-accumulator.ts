@@ -17,6 +17,7 @@
 
 import { calibrator } from "../config/card.js";
 import type { Card } from "../config/types.js";
+import type { RowNumbers, SummaryStore } from "./summary-store.js";
 import type { SessionSummary } from "./types.js";
 
 export const SCALE = 1e12;
@@ -177,6 +178,31 @@ export class SessionAccumulator {
     this.runLength[k] = 0;
   }
 
+  /**
+   * Ends open runs and adds one row per part × construct with at least one estimate to the store,
+   * as sitting `sitting`; the same rows as finish(), without making objects. Parts are named by
+   * the caller's numbers (Part.id).
+   */
+  finishInto(store: SummaryStore, sitting: number): void {
+    for (let k = 0; k < this.plan.keys.length; k++) this.closeRun(k);
+    store.beginSitting(sitting, localDay(this.firstTime, this.firstOffsetMinutes));
+    for (const part of this.parts) {
+      const acc = part.acc;
+      for (let k = 0; k < this.plan.keys.length; k++) {
+        const base = k * STRIDE;
+        const windows = acc[base + WINDOWS]!;
+        if (windows === 0) continue;
+        ROW.windows = windows;
+        ROW.sumP = acc[base + SUM_P]!;
+        ROW.sumP2 = acc[base + SUM_P2]!;
+        ROW.above = acc[base + ABOVE]!;
+        ROW.episodes = acc[base + EPISODES]!;
+        ROW.longest = acc[base + LONGEST]!;
+        store.add(sitting, part.id, k, ROW);
+      }
+    }
+  }
+
   /** Ends open runs and returns one summary per part × construct with at least one estimate. */
   finish(): SessionSummary[] {
     for (let k = 0; k < this.plan.keys.length; k++) this.closeRun(k);
@@ -210,6 +236,9 @@ export class SessionAccumulator {
     return out;
   }
 }
+
+/** finishInto's scratch row (one object, not one per row). */
+const ROW: RowNumbers = { windows: 0, sumP: 0, sumP2: 0, above: 0, episodes: 0, longest: 0 };
 
 /** YYYY-MM-DD of an instant seen at a UTC offset (Hinnant's civil_from_days). */
 export function localDay(time: number, offsetMinutes: number): string {

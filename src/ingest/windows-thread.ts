@@ -1,0 +1,328 @@
+/**
+ * A windows file read by two threads, in parts taken alternately (windows.ts, readInParts). This
+ * thread parses and reduces its parts as it would the whole file; meanwhile a worker parses the
+ * others (WindowsParser: reading and checking, the larger half of the work) into batches of rows,
+ * which this thread reduces in their turn, as if it had parsed them itself: the worker's sittings
+ * and parts are renumbered by their ids (adoptSitting), its lines moved on by the lines before each
+ * part, and its rejections counted after the rows before them. The reducer sees the same calls in
+ * the same order as reading in one go, so the summaries, the account and every message are the same.
+ *
+ * The rows cross in batches of typed arrays (moved, not copied), with the ids of the sittings and
+ * parts that first appear in them. The ingest stays synchronous: this thread takes each batch with
+ * receiveMessageOnPort and sleeps on a shared counter (Atomics.wait) while none is there; the
+ * worker sleeps likewise when MAX_AHEAD batches are waiting, which bounds the memory in flight.
+ */
+import { MessageChannel, type MessagePort, receiveMessageOnPort, Worker } from "node:worker_threads";
+import type { Card, Settings } from "../config/types.js";
+import { InputError, SettingsError, StrictRowError } from "../errors.js";
+import type { PartIds } from "../summaries/session-accumulator.js";
+import type { ReadEnd } from "./csv-records.js";
+import {
+  countDeferred,
+  type DeferredRejects,
+  type Layout,
+  type RowSink,
+  WindowsParser,
+  type WindowsReducer,
+} from "./windows.js";
+
+/** Rows per batch. */
+const BATCH_ROWS = 8192;
+/** Batches posted and not yet taken, at most (about 20 MB with six constructs). */
+const MAX_AHEAD = 32;
+/** Slots of the shared counter. */
+const PRODUCED = 0;
+const CONSUMED = 1;
+/** Int32 fields of a row in a batch: sitting, part, line, UTC offset, flags. */
+const INTS = 5;
+
+export interface WorkerInput {
+  readonly path: string;
+  readonly card: Card;
+  readonly settings: Settings;
+  /** The worker's parts: start and end offsets, one pair each (the last end is Infinity: the end of the file). */
+  readonly parts: readonly number[];
+  readonly port: MessagePort;
+  readonly counter: Int32Array;
+}
+
+export type FromWorker =
+  | { type: "header"; layout: Layout; present: boolean[] }
+  | {
+      type: "rows";
+      n: number;
+      ints: Int32Array;
+      floats: Float64Array;
+      sittings: (number | string)[];
+      parts: (number | PartIds)[];
+    }
+  | {
+      type: "part";
+      /** Where the part's reading stopped, and its lines. */
+      offset: number;
+      lines: number;
+      rowsRead: number;
+      blankLines: number;
+      deferred: DeferredRejects;
+    }
+  | { type: "error"; kind: "input" | "settings" | "strict" | "bug"; message: string; stack: string };
+
+/** The worker's parts, reduced here one by one in their turn. */
+export interface WorkerParts {
+  /** Reduces the worker's next part, which starts at line `line`; returns where its reading stopped. */
+  reducePart(parser: WindowsParser, reducer: WindowsReducer, line: number): ReadEnd;
+  close(): void;
+}
+
+export function workerParts(
+  path: string,
+  card: Card,
+  settings: Settings,
+  parts: readonly number[],
+  here: boolean,
+): WorkerParts {
+  const input = { path, card, settings, parts };
+  let next: () => FromWorker;
+  let close = (): void => {};
+  // The TypeScript sources (under the tests) cannot start a worker on Node 20, whose loader hooks
+  // do not reach worker threads: they parse the worker's parts here first; the build starts it.
+  if (here || import.meta.url.endsWith(".ts")) {
+    const messages: FromWorker[] = [];
+    parseParts(input, new BatchOut((m) => messages.push(m)));
+    let at = 0;
+    next = () => messages[at++]!;
+  } else {
+    const counter = new Int32Array(new SharedArrayBuffer(8));
+    const { port1, port2 } = new MessageChannel();
+    const workerData: WorkerInput = { ...input, port: port2, counter };
+    const worker = new Worker(new URL("./windows-worker.js", import.meta.url), {
+      workerData,
+      transferList: [port2],
+    });
+    worker.unref();
+    next = () => nextMessage(port1, counter);
+    close = () => {
+      port1.close();
+      void worker.terminate();
+    };
+  }
+  const feed = new PartFeed();
+  return { reducePart: (parser, reducer, line) => feed.reduce(next, parser, reducer, line), close };
+}
+
+/** The worker's run (or the tests'): its parts parsed in order, each ended by a "part" message. */
+export function parseParts(
+  input: { path: string; card: Card; settings: Settings; parts: readonly number[] },
+  out: BatchOut,
+): void {
+  try {
+    const parser = new WindowsParser(input.path, input.card, input.settings, out, { deferRejections: true });
+    for (let i = 0; i < input.parts.length; i += 2) {
+      const end = parser.readPart(input.parts[i]!, input.parts[i + 1]!, 1);
+      out.endPart(end, parser.takePart());
+    }
+  } catch (error) {
+    out.error(error);
+  }
+}
+
+/** Reduces the worker's rows part by part, keeping its sittings' and parts' numbers here. */
+class PartFeed {
+  private values = new Float64Array(0);
+  private readonly sittingOf: number[] = [];
+  private readonly partOf: number[] = [];
+
+  reduce(next: () => FromWorker, parser: WindowsParser, reducer: WindowsReducer, line: number): ReadEnd {
+    const lineBase = line - 1;
+    const { sittingOf, partOf } = this;
+    for (;;) {
+      const m = next();
+      if (m.type === "header") {
+        this.values = new Float64Array(m.layout.constructCols.length);
+      } else if (m.type === "rows") {
+        for (let i = 0; i < m.sittings.length; i += 3) {
+          sittingOf[m.sittings[i] as number] = parser.adoptSitting(
+            m.sittings[i + 1] as string,
+            m.sittings[i + 2] as string,
+          );
+        }
+        for (let i = 0; i < m.parts.length; i += 2) {
+          partOf[m.parts[i] as number] = parser.adoptPart(m.parts[i + 1] as PartIds);
+        }
+        const values = this.values;
+        const k = values.length;
+        const { ints, floats } = m;
+        for (let r = 0; r < m.n; r++) {
+          const f = r * (k + 1);
+          for (let c = 0; c < k; c++) values[c] = floats[f + 1 + c]!;
+          const i = r * INTS;
+          reducer.row(
+            sittingOf[ints[i]!]!,
+            partOf[ints[i + 1]!]!,
+            floats[f]!,
+            ints[i + 3]!,
+            ints[i + 2]! + lineBase,
+            values,
+            ints[i + 4]!,
+          );
+        }
+      } else if (m.type === "part") {
+        const account = reducer.account;
+        account.rowsRead += m.rowsRead;
+        account.blankLines += m.blankLines;
+        countDeferred(account, m.deferred, lineBase);
+        return { offset: m.offset, line: line + m.lines };
+      } else {
+        throw rebuilt(m);
+      }
+    }
+  }
+}
+
+/**
+ * Waiting this long for a batch means the worker has died (it posts its errors, but a thread that
+ * fails to start or runs out of memory cannot).
+ */
+const STALL_MS = 120_000;
+
+/** The next message from the worker, waiting for it. */
+function nextMessage(port: MessagePort, counter: Int32Array): FromWorker {
+  let waited = 0;
+  for (;;) {
+    let got = receiveMessageOnPort(port);
+    if (!got) {
+      const produced = Atomics.load(counter, PRODUCED);
+      // A message posted between the two looks has raised the count, or is here now.
+      got = receiveMessageOnPort(port);
+      if (!got) {
+        if (Atomics.wait(counter, PRODUCED, produced, 1000) === "timed-out") waited += 1000;
+        if (waited >= STALL_MS)
+          throw new Error(`the thread reading the windows file sent nothing for ${STALL_MS / 1000} s`);
+        continue;
+      }
+    }
+    Atomics.add(counter, CONSUMED, 1);
+    Atomics.notify(counter, CONSUMED);
+    return got.message as FromWorker;
+  }
+}
+
+/** The worker's error as the same kind of error here (messages unchanged). */
+function rebuilt(m: Extract<FromWorker, { type: "error" }>): Error {
+  if (m.kind === "input") return new InputError(m.message);
+  if (m.kind === "settings") return new SettingsError(m.message);
+  if (m.kind === "strict") return new StrictRowError(m.message);
+  const error = new Error(m.message);
+  error.stack = m.stack;
+  return error;
+}
+
+/** The worker's side: a RowSink that packs rows into batches and posts them. */
+export class BatchOut implements RowSink {
+  private k = 0;
+  private n = 0;
+  private ints = new Int32Array(0);
+  private floats = new Float64Array(0);
+  private sittings: (number | string)[] = [];
+  private parts: (number | PartIds)[] = [];
+
+  constructor(private readonly send: (m: FromWorker, transfer: ArrayBuffer[]) => void) {}
+
+  header(layout: Layout, present: readonly boolean[]): void {
+    this.k = layout.constructCols.length;
+    this.fresh();
+    this.post({ type: "header", layout, present: [...present] });
+  }
+
+  sitting(s: number, studentId: string, sessionId: string): void {
+    this.sittings.push(s, studentId, sessionId);
+  }
+
+  part(id: number, ids: PartIds): void {
+    this.parts.push(id, ids);
+  }
+
+  row(
+    s: number,
+    part: number,
+    time: number,
+    offset: number,
+    line: number,
+    values: Float64Array,
+    flags: number,
+  ): void {
+    const i = this.n * INTS;
+    const ints = this.ints;
+    ints[i] = s;
+    ints[i + 1] = part;
+    ints[i + 2] = line;
+    ints[i + 3] = offset;
+    ints[i + 4] = flags;
+    const f = this.n * (this.k + 1);
+    this.floats[f] = time;
+    this.floats.set(values, f + 1);
+    if (++this.n === BATCH_ROWS) this.flush();
+  }
+
+  /** Posts the rows so far (and any new ids). */
+  flush(): void {
+    if (this.n === 0 && this.sittings.length === 0 && this.parts.length === 0) return;
+    const m: FromWorker = {
+      type: "rows",
+      n: this.n,
+      ints: this.ints,
+      floats: this.floats,
+      sittings: this.sittings,
+      parts: this.parts,
+    };
+    this.post(m, [this.ints.buffer as ArrayBuffer, this.floats.buffer as ArrayBuffer]);
+    this.fresh();
+  }
+
+  endPart(end: ReadEnd, counts: { rowsRead: number; blankLines: number; deferred: DeferredRejects }): void {
+    this.flush();
+    this.post({ type: "part", offset: end.offset, lines: end.line - 1, ...counts });
+  }
+
+  error(error: unknown): void {
+    const e = error instanceof Error ? error : new Error(String(error));
+    const kind =
+      e instanceof StrictRowError
+        ? "strict"
+        : e instanceof InputError
+          ? "input"
+          : e instanceof SettingsError
+            ? "settings"
+            : "bug";
+    this.post({ type: "error", kind, message: e.message, stack: e.stack ?? "" });
+  }
+
+  private fresh(): void {
+    this.n = 0;
+    this.ints = new Int32Array(BATCH_ROWS * INTS);
+    this.floats = new Float64Array(BATCH_ROWS * (this.k + 1));
+    this.sittings = [];
+    this.parts = [];
+  }
+
+  private post(m: FromWorker, transfer: ArrayBuffer[] = []): void {
+    this.send(m, transfer);
+  }
+}
+
+/** BatchOut's sending from a worker: post, count, and wait while MAX_AHEAD batches are not taken. */
+export function workerSend(
+  port: MessagePort,
+  counter: Int32Array,
+): (m: FromWorker, transfer: ArrayBuffer[]) => void {
+  return (m, transfer) => {
+    for (;;) {
+      const consumed = Atomics.load(counter, CONSUMED);
+      if (Atomics.load(counter, PRODUCED) - consumed < MAX_AHEAD) break;
+      Atomics.wait(counter, CONSUMED, consumed, 1000);
+    }
+    port.postMessage(m, transfer);
+    Atomics.add(counter, PRODUCED, 1);
+    Atomics.notify(counter, PRODUCED);
+  };
+}
