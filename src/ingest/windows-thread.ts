@@ -15,7 +15,8 @@
 import { MessageChannel, type MessagePort, receiveMessageOnPort, Worker } from "node:worker_threads";
 import type { Card, Settings } from "../config/types.js";
 import { InputError, SettingsError, StrictRowError } from "../errors.js";
-import type { PartIds } from "../summaries/session-accumulator.js";
+import { addToSegment, SEG_STRIDE, startSegment } from "../summaries/segment.js";
+import { ConstructPlan, type PartIds } from "../summaries/session-accumulator.js";
 import type { ReadEnd } from "./csv-records.js";
 import {
   countDeferred,
@@ -26,8 +27,13 @@ import {
   type WindowsReducer,
 } from "./windows.js";
 
-/** Rows per batch. */
-const BATCH_ROWS = 8192;
+/** Rows per batch (smaller in tests, to put batch ends inside sittings and runs). */
+let batchRows = 8192;
+
+/** For tests: rows per batch from now on (at least 1). */
+export function setBatchRows(rows: number): void {
+  batchRows = Math.max(1, Math.floor(rows));
+}
 /** Batches posted and not yet taken, at most (about 20 MB with six constructs). */
 const MAX_AHEAD = 32;
 /** Slots of the shared counter. */
@@ -35,6 +41,8 @@ const PRODUCED = 0;
 const CONSUMED = 1;
 /** Int32 fields of a row in a batch: sitting, part, line, UTC offset, flags. */
 const INTS = 5;
+/** Int32 fields of a segment: its first row, its rows, those without any estimate. */
+const SEG_INTS = 3;
 
 export interface WorkerInput {
   readonly path: string;
@@ -48,14 +56,7 @@ export interface WorkerInput {
 
 export type FromWorker =
   | { type: "header"; layout: Layout; present: boolean[] }
-  | {
-      type: "rows";
-      n: number;
-      ints: Int32Array;
-      floats: Float64Array;
-      sittings: (number | string)[];
-      parts: (number | PartIds)[];
-    }
+  | RowsMessage
   | {
       type: "part";
       /** Where the part's reading stopped, and its lines. */
@@ -66,6 +67,33 @@ export type FromWorker =
       deferred: DeferredRejects;
     }
   | { type: "error"; kind: "input" | "settings" | "strict" | "bug"; message: string; stack: string };
+
+/** A batch of rows, with their segments and the ids first seen in them. */
+export interface RowsMessage {
+  type: "rows";
+  n: number;
+  ints: Int32Array;
+  floats: Float64Array;
+  sittings: (number | string)[];
+  parts: (number | PartIds)[];
+  /** Segments of the rows (segment.ts): SEG_INTS and 2 + SEG_STRIDE × constructs numbers each. */
+  segments: number;
+  segInts: Int32Array;
+  segFloats: Float64Array;
+}
+
+/** A batch's arrays, sent back to the worker for its next batches once reduced. */
+export interface BatchArrays {
+  readonly ints: Int32Array;
+  readonly floats: Float64Array;
+  readonly segInts: Int32Array;
+  readonly segFloats: Float64Array;
+}
+
+/** The worker's side: the arrays of a batch sent back, if one is waiting. */
+export function workerTakeBack(port: MessagePort): () => BatchArrays | null {
+  return () => (receiveMessageOnPort(port)?.message as BatchArrays | undefined) ?? null;
+}
 
 /** The worker's parts, reduced here one by one in their turn. */
 export interface WorkerParts {
@@ -84,11 +112,12 @@ export function workerParts(
   const input = { path, card, settings, parts };
   let next: () => FromWorker;
   let close = (): void => {};
+  let giveBack = (_m: RowsMessage): void => {};
   // The TypeScript sources (under the tests) cannot start a worker on Node 20, whose loader hooks
   // do not reach worker threads: they parse the worker's parts here first; the build starts it.
   if (here || import.meta.url.endsWith(".ts")) {
     const messages: FromWorker[] = [];
-    parseParts(input, new BatchOut((m) => messages.push(m)));
+    parseParts(input, new BatchOut(card, (m) => messages.push(m)));
     let at = 0;
     next = () => messages[at++]!;
   } else {
@@ -101,13 +130,26 @@ export function workerParts(
     });
     worker.unref();
     next = () => nextMessage(port1, counter);
+    giveBack = (m) => {
+      const { ints, floats, segInts, segFloats } = m;
+      const back: BatchArrays = { ints, floats, segInts, segFloats };
+      port1.postMessage(back, [
+        ints.buffer,
+        floats.buffer,
+        segInts.buffer,
+        segFloats.buffer,
+      ] as ArrayBuffer[]);
+    };
     close = () => {
       port1.close();
       void worker.terminate();
     };
   }
   const feed = new PartFeed();
-  return { reducePart: (parser, reducer, line) => feed.reduce(next, parser, reducer, line), close };
+  return {
+    reducePart: (parser, reducer, line) => feed.reduce(next, giveBack, parser, reducer, line),
+    close,
+  };
 }
 
 /** The worker's run (or the tests'): its parts parsed in order, each ended by a "part" message. */
@@ -132,7 +174,13 @@ class PartFeed {
   private readonly sittingOf: number[] = [];
   private readonly partOf: number[] = [];
 
-  reduce(next: () => FromWorker, parser: WindowsParser, reducer: WindowsReducer, line: number): ReadEnd {
+  reduce(
+    next: () => FromWorker,
+    giveBack: (m: RowsMessage) => void,
+    parser: WindowsParser,
+    reducer: WindowsReducer,
+    line: number,
+  ): ReadEnd {
     const lineBase = line - 1;
     const { sittingOf, partOf } = this;
     for (;;) {
@@ -151,21 +199,38 @@ class PartFeed {
         }
         const values = this.values;
         const k = values.length;
-        const { ints, floats } = m;
-        for (let r = 0; r < m.n; r++) {
-          const f = r * (k + 1);
-          for (let c = 0; c < k; c++) values[c] = floats[f + 1 + c]!;
-          const i = r * INTS;
-          reducer.row(
-            sittingOf[ints[i]!]!,
-            partOf[ints[i + 1]!]!,
-            floats[f]!,
-            ints[i + 3]!,
-            ints[i + 2]! + lineBase,
-            values,
-            ints[i + 4]!,
+        const { ints, floats, segInts, segFloats } = m;
+        const segStride = 2 + SEG_STRIDE * k;
+        for (let g = 0; g < m.segments; g++) {
+          const gi = g * SEG_INTS;
+          const from = segInts[gi]!;
+          const n = segInts[gi + 1]!;
+          const i0 = from * INTS;
+          const s = sittingOf[ints[i0]!]!;
+          const part = partOf[ints[i0 + 1]!]!;
+          const gf = g * segStride;
+          const whole = reducer.segment(
+            s,
+            part,
+            ints[i0 + 4]!,
+            n,
+            segFloats[gf]!,
+            ints[i0 + 3]!,
+            segFloats[gf + 1]!,
+            segInts[gi + 2]!,
+            segFloats,
+            gf + 2,
           );
+          if (whole) continue;
+          // The segment's rows one by one (its flags are taken).
+          for (let r = from; r < from + n; r++) {
+            const f = r * (k + 1);
+            for (let c = 0; c < k; c++) values[c] = floats[f + 1 + c]!;
+            const i = r * INTS;
+            reducer.row(s, part, floats[f]!, ints[i + 3]!, ints[i + 2]! + lineBase, values, 0);
+          }
         }
+        giveBack(m);
       } else if (m.type === "part") {
         const account = reducer.account;
         account.rowsRead += m.rowsRead;
@@ -221,15 +286,27 @@ function rebuilt(m: Extract<FromWorker, { type: "error" }>): Error {
 export class BatchOut implements RowSink {
   private k = 0;
   private n = 0;
-  private ints = new Int32Array(0);
-  private floats = new Float64Array(0);
+  private ints: Int32Array = new Int32Array(0);
+  private floats: Float64Array = new Float64Array(0);
   private sittings: (number | string)[] = [];
   private parts: (number | PartIds)[] = [];
+  private plan: ConstructPlan | null = null;
+  /** Segments so far in this batch; the last is open while `segmentOpen`, and ends at `segmentLast`. */
+  private segments = 0;
+  private segInts: Int32Array = new Int32Array(0);
+  private segFloats: Float64Array = new Float64Array(0);
+  private segmentOpen = false;
+  private segmentLast = 0;
 
-  constructor(private readonly send: (m: FromWorker, transfer: ArrayBuffer[]) => void) {}
+  constructor(
+    private readonly card: Card,
+    private readonly send: (m: FromWorker, transfer: ArrayBuffer[]) => void,
+    private readonly takeBack: () => BatchArrays | null = () => null,
+  ) {}
 
   header(layout: Layout, present: readonly boolean[]): void {
     this.k = layout.constructCols.length;
+    this.plan = new ConstructPlan(this.card, present);
     this.fresh();
     this.post({ type: "header", layout, present: [...present] });
   }
@@ -261,7 +338,25 @@ export class BatchOut implements RowSink {
     const f = this.n * (this.k + 1);
     this.floats[f] = time;
     this.floats.set(values, f + 1);
-    if (++this.n === BATCH_ROWS) this.flush();
+    // The row continues the open segment when it changes neither sitting nor part and comes later.
+    const stride = 2 + SEG_STRIDE * this.k;
+    if (!this.segmentOpen || flags !== 0 || !(time > this.segmentLast)) {
+      if ((this.segments + 1) * SEG_INTS > this.segInts.length) this.growSegments();
+      const g = this.segments++;
+      this.segInts[g * SEG_INTS] = this.n;
+      this.segInts[g * SEG_INTS + 1] = 0;
+      this.segInts[g * SEG_INTS + 2] = 0;
+      this.segFloats[g * stride] = time;
+      startSegment(this.segFloats, g * stride + 2, this.k);
+      this.segmentOpen = true;
+    }
+    const g = this.segments - 1;
+    this.segInts[g * SEG_INTS + 1]!++;
+    if (!addToSegment(this.plan!, this.segFloats, g * stride + 2, time, values))
+      this.segInts[g * SEG_INTS + 2]!++;
+    this.segFloats[g * stride + 1] = time;
+    this.segmentLast = time;
+    if (++this.n === batchRows) this.flush();
   }
 
   /** Posts the rows so far (and any new ids). */
@@ -274,8 +369,16 @@ export class BatchOut implements RowSink {
       floats: this.floats,
       sittings: this.sittings,
       parts: this.parts,
+      segments: this.segments,
+      segInts: this.segInts,
+      segFloats: this.segFloats,
     };
-    this.post(m, [this.ints.buffer as ArrayBuffer, this.floats.buffer as ArrayBuffer]);
+    this.post(m, [
+      this.ints.buffer as ArrayBuffer,
+      this.floats.buffer as ArrayBuffer,
+      this.segInts.buffer as ArrayBuffer,
+      this.segFloats.buffer as ArrayBuffer,
+    ]);
     this.fresh();
   }
 
@@ -299,10 +402,37 @@ export class BatchOut implements RowSink {
 
   private fresh(): void {
     this.n = 0;
-    this.ints = new Int32Array(BATCH_ROWS * INTS);
-    this.floats = new Float64Array(BATCH_ROWS * (this.k + 1));
     this.sittings = [];
     this.parts = [];
+    this.segments = 0;
+    this.segmentOpen = false;
+    // The arrays of a batch already reduced, sent back (none in the tests' single thread).
+    const back = this.takeBack();
+    if (
+      back !== null &&
+      back.ints.length === batchRows * INTS &&
+      back.floats.length === batchRows * (this.k + 1)
+    ) {
+      this.ints = back.ints;
+      this.floats = back.floats;
+      this.segInts = back.segInts;
+      this.segFloats = back.segFloats;
+      return;
+    }
+    this.ints = new Int32Array(batchRows * INTS);
+    this.floats = new Float64Array(batchRows * (this.k + 1));
+    // Sorted rows make few segments a batch, shuffled rows one a row: grown when needed.
+    this.segInts = new Int32Array(256 * SEG_INTS);
+    this.segFloats = new Float64Array(256 * (2 + SEG_STRIDE * this.k));
+  }
+
+  private growSegments(): void {
+    const ints = new Int32Array(this.segInts.length * 2);
+    ints.set(this.segInts);
+    this.segInts = ints;
+    const floats = new Float64Array(this.segFloats.length * 2);
+    floats.set(this.segFloats);
+    this.segFloats = floats;
   }
 
   private post(m: FromWorker, transfer: ArrayBuffer[] = []): void {

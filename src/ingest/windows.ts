@@ -110,6 +110,11 @@ export interface Layout {
   /** Per column: ROLE_*, and its id slot or construct index. */
   readonly roles: Int8Array;
   readonly roleArgs: Int32Array;
+  /**
+   * How many columns from the first hold ids, when every id column is among them (0 otherwise):
+   * a row whose first `idLead` fields repeat the previous row's bytes repeats all its ids.
+   */
+  readonly idLead: number;
   readonly names: readonly string[];
   readonly columns: ColumnAccount;
 }
@@ -152,6 +157,9 @@ function layoutOf(
     roleArgs[col] = k;
   });
   roles[index.get("window_start")!] = ROLE_TIME;
+  let idLead = 0;
+  while (idLead < roles.length && roles[idLead] === ROLE_ID) idLead++;
+  if (ids.some((col) => col >= idLead)) idLead = 0;
   return {
     present,
     layout: {
@@ -163,6 +171,7 @@ function layoutOf(
       constructCols,
       roles,
       roleArgs,
+      idLead,
       names,
       columns: {
         constructs,
@@ -197,7 +206,36 @@ class PreviousIds {
     return true;
   }
 
+  /**
+   * The previous row's first Layout.idLead fields with the comma after them, as bytes (length 0
+   * when not known: set by the fast path only), compared four bytes at a time through `leadView`.
+   */
+  readonly lead = Buffer.alloc(1 << 12);
+  readonly leadView = new DataView(this.lead.buffer, this.lead.byteOffset, this.lead.length);
+  leadLength = 0;
+
+  /** Keeps bytes [from, to) of buf as the row's leading id fields (when they fit). */
+  rememberLead(buf: Uint8Array, from: number, to: number): void {
+    const n = to - from;
+    if (n > this.lead.length) return;
+    const lead = this.lead;
+    for (let i = 0; i < n; i++) lead[i] = buf[from + i]!;
+    this.leadLength = n;
+  }
+
+  /** Whether buf, seen through `view`, repeats the leading id fields from `at` (see lead). */
+  sameLead(buf: Uint8Array, view: DataView, at: number, end: number): boolean {
+    const n = this.leadLength;
+    if (n === 0 || at + n > end) return false;
+    const lead = this.leadView;
+    let i = 0;
+    for (; i + 4 <= n; i += 4) if (view.getInt32(at + i) !== lead.getInt32(i)) return false;
+    for (; i < n; i++) if (buf[at + i] !== this.lead[i]) return false;
+    return true;
+  }
+
   remember(buf: Buffer, starts: Int32Array, ends: Int32Array, ids: Int32Array): void {
+    this.leadLength = 0;
     let at = 0;
     this.valid = true;
     this.plain = true;
@@ -261,7 +299,7 @@ export interface WindowsOptions {
  */
 const ROUND_BYTES = 32 * 1024 * 1024;
 const PROBE_BYTES = 1024 * 1024;
-const SORTED_SHARE = 0.15;
+const SORTED_SHARE = 0.42;
 const SHUFFLED_SHARE = 0.35;
 
 /** Files from this size on are read by two threads when two cores are there: below it, starting a worker does not pay. */
@@ -542,6 +580,9 @@ export class WindowsParser {
   private starts = new Int32Array(0);
   private ends = new Int32Array(0);
   private readonly prev = new PreviousIds();
+  /** A view of the buffer the fast path last read (for PreviousIds.sameLead). */
+  private viewOf: Uint8Array | null = null;
+  private view: DataView = new DataView(new ArrayBuffer(0));
   private readonly times = new TimestampReader();
 
   // Sittings by number (order of first appearance) and parts (global numbers).
@@ -762,7 +803,20 @@ export class WindowsParser {
     let changed = prev.valid && prev.plain ? 0 : ALL_SLOTS;
     let time = Number.NaN;
     let p = start;
-    for (let col = 0; col < fieldCount; col++) {
+    let col = 0;
+    const lead = lay.idLead;
+    if (changed === 0 && lead > 0) {
+      if (buf !== this.viewOf) {
+        this.viewOf = buf;
+        this.view = new DataView(buf.buffer, buf.byteOffset, buf.length);
+      }
+      if (prev.sameLead(buf, this.view, p, end)) {
+        // Every id repeats the previous row's: on to the first column after them.
+        p += prev.leadLength;
+        col = lead;
+      }
+    }
+    for (; col < fieldCount; col++) {
       if (p > end) return false; // fewer fields than the header
       starts[col] = p;
       const role = roles[col]!;
@@ -861,6 +915,9 @@ export class WindowsParser {
     if (p !== end + 1) return false; // more fields than the header
     if (this.pass === 0) this.account.rowsRead++;
     this.take(buf, starts, ends, time, this.times.offsetMinutes, line, changed);
+    // take() remembered the ids of a row that changed them; the fast path also keeps their bytes.
+    if (changed !== 0 && lead > 0 && prev.valid && prev.plain)
+      prev.rememberLead(buf, start, ends[lead - 1]! + 1);
     return true;
   }
 
@@ -1124,6 +1181,38 @@ export class WindowsReducer implements RowSink {
       return;
     }
     acc.add(time, offset, this.localPart, values);
+  }
+
+  /**
+   * A segment of `n` rows parsed elsewhere (segment.ts): takes its first row's flags and, when the
+   * sitting is open and the segment starts after its last window, adds the segment whole and
+   * returns true. Returns false otherwise, having taken only the flags: the caller then gives the
+   * segment's rows to row() one by one, with no flags, which is what reading them here would do.
+   */
+  segment(
+    s: number,
+    part: number,
+    flags: number,
+    n: number,
+    firstTime: number,
+    firstOffset: number,
+    lastTime: number,
+    withoutEstimate: number,
+    seg: Float64Array,
+    at: number,
+  ): boolean {
+    if (this.pass > 0) return false;
+    if ((flags & ENTERED) !== 0) {
+      this.entered++;
+      this.enter(s);
+    } else if ((flags & NEW_PART) !== 0) this.localPart = -1;
+    const acc = this.currentAcc;
+    if (acc === null || firstTime <= acc.lastTime) return false;
+    this.seen += n;
+    this.rows[s]! += n;
+    if (this.localPart < 0) this.localPart = acc.partIndex(part, this.partIds[part]!);
+    acc.merge(this.localPart, seg, at, firstTime, firstOffset, lastTime, withoutEstimate);
+    return true;
   }
 
   /** The share of the rows so far whose sitting differs from the previous row's (0 for none). */

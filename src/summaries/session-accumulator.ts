@@ -17,10 +17,25 @@
 
 import { calibrator } from "../config/card.js";
 import type { Card } from "../config/types.js";
+import { SCALE } from "./scale.js";
+import {
+  SEG_ABOVE,
+  SEG_EPISODES,
+  SEG_FIRST,
+  SEG_LAST,
+  SEG_LEAD,
+  SEG_LONGEST,
+  SEG_OPEN,
+  SEG_STRIDE,
+  SEG_SUM_P,
+  SEG_SUM_P2,
+  SEG_WHOLE,
+  SEG_WINDOWS,
+} from "./segment.js";
 import type { RowNumbers, SummaryStore } from "./summary-store.js";
 import type { SessionSummary } from "./types.js";
 
-export const SCALE = 1e12;
+export { SCALE };
 
 // Layout of a part's accumulator: six numbers per construct.
 const WINDOWS = 0;
@@ -166,6 +181,64 @@ export class SessionAccumulator {
       this.lastEstimate[k] = time;
     }
     if (!any) this.rowsWithoutEstimate++;
+  }
+
+  /**
+   * Adds a segment (segment.ts) of windows that all start after every window added so far, with
+   * the same result as adding them one by one: `seg` holds its numbers per construct from `at`;
+   * `firstTime` and `firstOffsetMinutes` are its first window's, `lastTime` its last window's, and
+   * `withoutEstimate` counts its windows without any estimate.
+   */
+  merge(
+    part: number,
+    seg: Float64Array,
+    at: number,
+    firstTime: number,
+    firstOffsetMinutes: number,
+    lastTime: number,
+    withoutEstimate: number,
+  ): void {
+    const plan = this.plan;
+    if (firstTime < this.firstTime) {
+      this.firstTime = firstTime;
+      this.firstOffsetMinutes = firstOffsetMinutes;
+    }
+    this.lastTime = lastTime;
+    this.rowsWithoutEstimate += withoutEstimate;
+    const acc = this.parts[part]!.acc;
+    const runLength = this.runLength;
+    for (let k = 0; k < plan.keys.length; k++) {
+      const b = at + k * SEG_STRIDE;
+      const windows = seg[b + SEG_WINDOWS]!;
+      if (windows === 0) continue;
+      const base = k * STRIDE;
+      acc[base + WINDOWS]! += windows;
+      acc[base + SUM_P]! += seg[b + SEG_SUM_P]!;
+      acc[base + SUM_P2]! += seg[b + SEG_SUM_P2]!;
+      acc[base + ABOVE]! += seg[b + SEG_ABOVE]!;
+      const whole = seg[b + SEG_WHOLE] === 1;
+      const lead = whole ? seg[b + SEG_OPEN]! : seg[b + SEG_LEAD]!;
+      if (lead > 0) {
+        if (runLength[k]! > 0 && seg[b + SEG_FIRST]! - this.lastEstimate[k]! <= plan.adjacentMs) {
+          runLength[k]! += lead;
+        } else {
+          this.closeRun(k);
+          runLength[k] = lead;
+          this.runPart[k] = part;
+        }
+      } else this.closeRun(k);
+      if (!whole) {
+        this.closeRun(k);
+        acc[base + EPISODES]! += seg[b + SEG_EPISODES]!;
+        if (seg[b + SEG_LONGEST]! > acc[base + LONGEST]!) acc[base + LONGEST] = seg[b + SEG_LONGEST]!;
+        const open = seg[b + SEG_OPEN]!;
+        if (open > 0) {
+          runLength[k] = open;
+          this.runPart[k] = part;
+        }
+      }
+      this.lastEstimate[k] = seg[b + SEG_LAST]!;
+    }
   }
 
   private closeRun(k: number): void {

@@ -78,6 +78,42 @@ export class CsvBytes {
     for (let i = 0; i < text.length; i++) this.buf[this.at++] = text.charCodeAt(i);
   }
 
+  /**
+   * A line of the store's: the first `prefixLength` bytes of `prefix`, the construct's cell with its
+   * comma, then the six numbers (sums as whole multiples of 1e-12), comma-separated.
+   */
+  line(
+    prefix: Uint8Array,
+    prefixLength: number,
+    construct: Uint8Array,
+    windows: number,
+    sumP: number,
+    sumP2: number,
+    above: number,
+    episodes: number,
+    longest: number,
+  ): void {
+    // Six numbers take at most 6 × 22 bytes with their commas.
+    this.room(prefixLength + construct.length + 140);
+    const buf = this.buf;
+    let at = this.at;
+    for (let i = 0; i < prefixLength; i++) buf[at++] = prefix[i]!;
+    for (let i = 0; i < construct.length; i++) buf[at++] = construct[i]!;
+    this.at = at;
+    this.int(windows);
+    this.buf[this.at++] = 44;
+    this.scaled(sumP);
+    this.buf[this.at++] = 44;
+    this.scaled(sumP2);
+    this.buf[this.at++] = 44;
+    this.int(above);
+    this.buf[this.at++] = 44;
+    this.int(episodes);
+    this.buf[this.at++] = 44;
+    this.int(longest);
+    this.buf[this.at++] = 10;
+  }
+
   /** A whole number 0 ≤ n < 2^53, as String(n) writes it. */
   int(n: number): void {
     let len = 1;
@@ -175,41 +211,48 @@ function* storeCsv(store: SummaryStore, withActivity: boolean): Generator<Uint8A
   const out = new CsvBytes();
   out.ascii(csvLine(sessionColumns(withActivity)));
   const text = new TextBytes();
+  const cols = store.columns();
+  const constructCells = store.keys.map((key) => Buffer.from(`${textCell(key)},`, "utf8"));
+  // The line's start (student, class, school, unit, activity, session, day), made once per sitting and part.
+  let prefix = new Uint8Array(256);
   for (const s of store.sittingOrder()) {
     const sitting = store.sitting(s);
+    let prefixPart = -1;
+    let prefixLength = 0;
     for (const r of store.rowsOf(s)) {
-      const row = store.row(r);
-      const part = row.part;
-      out.bytes(text.cell(0, sitting.studentId));
-      out.byte(44);
-      out.bytes(text.cell(1, part.classId));
-      out.byte(44);
-      out.bytes(text.cell(2, part.schoolId));
-      out.byte(44);
-      out.bytes(text.cell(3, part.unitId));
-      out.byte(44);
-      if (withActivity) {
-        out.bytes(text.cell(4, part.activityId));
-        out.byte(44);
+      const partId = cols.part[r]!;
+      if (partId !== prefixPart) {
+        const part = store.parts[partId]!;
+        const cells = [
+          text.cell(0, sitting.studentId),
+          text.cell(1, part.classId),
+          text.cell(2, part.schoolId),
+          text.cell(3, part.unitId),
+          ...(withActivity ? [text.cell(4, part.activityId)] : []),
+          text.cell(5, sitting.sessionId),
+          text.cell(7, sitting.day),
+        ];
+        const length = cells.reduce((n, c) => n + c.length + 1, 0);
+        if (length > prefix.length) prefix = new Uint8Array(length * 2);
+        prefixLength = 0;
+        for (const c of cells) {
+          prefix.set(c, prefixLength);
+          prefixLength += c.length;
+          prefix[prefixLength++] = 44;
+        }
+        prefixPart = partId;
       }
-      out.bytes(text.cell(5, sitting.sessionId));
-      out.byte(44);
-      out.ascii(sitting.day);
-      out.byte(44);
-      out.bytes(text.cell(6, row.construct));
-      out.byte(44);
-      out.int(row.windows);
-      out.byte(44);
-      out.scaled(row.sumP);
-      out.byte(44);
-      out.scaled(row.sumP2);
-      out.byte(44);
-      out.int(row.above);
-      out.byte(44);
-      out.int(row.episodes);
-      out.byte(44);
-      out.int(row.longest);
-      out.byte(10);
+      out.line(
+        prefix,
+        prefixLength,
+        constructCells[cols.construct[r]!]!,
+        cols.windows[r]!,
+        cols.sumP[r]!,
+        cols.sumP2[r]!,
+        cols.above[r]!,
+        cols.episodes[r]!,
+        cols.longest[r]!,
+      );
     }
     if (out.full) yield out.take();
   }

@@ -132,12 +132,15 @@ export class SummaryStore implements Iterable<SessionSummary> {
   }
 
   /** Sitting s's rows in output order. */
-  rowsOf(s: number): Iterable<number> {
+  rowsOf(s: number): readonly number[] {
     const start = this.rowStart[s]!;
     const count = this.rowCount[s]!;
-    const rows = Array.from({ length: count }, (_, i) => start + i);
+    const rows: number[] = new Array(count);
     let onePart = true;
-    for (let r = start + 1; r < start + count; r++) if (this.part[r] !== this.part[start]) onePart = false;
+    for (let i = 0; i < count; i++) {
+      rows[i] = start + i;
+      if (this.part[start + i] !== this.part[start]) onePart = false;
+    }
     if (onePart) return rows;
     return rows.sort((x, y) => {
       const p = this.parts[this.part[x]!]!;
@@ -200,6 +203,24 @@ export class SummaryStore implements Iterable<SessionSummary> {
   /** The ids of sitting s (student, session, day). */
   sitting(s: number): { studentId: string; sessionId: string; day: string } {
     return { studentId: this.students[s]!, sessionId: this.sessions[s]!, day: this.days[this.dayOf[s]!]! };
+  }
+
+  /**
+   * The row columns themselves, for writers that go through many rows (sessions-csv.ts); read
+   * only, and valid until the next add.
+   */
+  columns(): {
+    readonly part: Int32Array;
+    readonly construct: Uint8Array;
+    readonly windows: Int32Array;
+    readonly sumP: Float64Array;
+    readonly sumP2: Float64Array;
+    readonly above: Int32Array;
+    readonly episodes: Int32Array;
+    readonly longest: Int32Array;
+  } {
+    const { part, construct, windows, sumP, sumP2, above, episodes, longest } = this;
+    return { part, construct, windows, sumP, sumP2, above, episodes, longest };
   }
 
   /** Row r's raw columns, for writers that format numbers themselves (sums as multiples of 1e-12). */
