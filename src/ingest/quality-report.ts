@@ -5,6 +5,7 @@
  */
 import type { Card } from "../config/types.js";
 import { msg } from "../messages.js";
+import { SummaryStore } from "../summaries/summary-store.js";
 import type { SessionSummary } from "../summaries/types.js";
 import type { Example, ReasonCount, RowAccount } from "./quality.js";
 import type { Roster } from "./roster.js";
@@ -95,7 +96,20 @@ export interface QualityInput {
   readonly notes: readonly string[];
 }
 
-export function buildQuality(q: QualityInput): Quality {
+/** The distinct ids and days of the summaries, and the windows per construct. */
+export interface Census {
+  readonly students: Set<string>;
+  readonly sessions: number;
+  readonly classes: Set<string>;
+  readonly schools: Set<string>;
+  readonly units: Set<string>;
+  readonly days: Set<string>;
+  readonly windowsBy: Map<string, number>;
+}
+
+/** The census of summaries given as objects (a SummaryStore takes its own, from its columns). */
+function censusOf(summaries: Iterable<SessionSummary>): Census {
+  if (summaries instanceof SummaryStore) return summaries.census();
   const students = new Set<string>();
   const sessions = new Set<string>();
   const classes = new Set<string>();
@@ -106,7 +120,7 @@ export function buildQuality(q: QualityInput): Quality {
   // Summaries mostly come sorted, several to a session: a value that repeats the previous row's
   // adds nothing new to its set, so only changes are added.
   let last: SessionSummary | null = null;
-  for (const s of q.summaries) {
+  for (const s of summaries) {
     if (last === null || s.studentId !== last.studentId || s.sessionId !== last.sessionId) {
       students.add(s.studentId);
       sessions.add(`${s.studentId}\u0000${s.sessionId}`);
@@ -118,6 +132,11 @@ export function buildQuality(q: QualityInput): Quality {
     windowsBy.set(s.construct, (windowsBy.get(s.construct) ?? 0) + s.windows);
     last = s;
   }
+  return { students, sessions: sessions.size, classes, schools, units, days, windowsBy };
+}
+
+export function buildQuality(q: QualityInput): Quality {
+  const { students, sessions, classes, schools, units, days, windowsBy } = censusOf(q.summaries);
   const sortedDays = [...days].sort();
   const rosterIds = q.roster ? [...q.roster.entries.keys()] : [];
   return {
@@ -139,7 +158,7 @@ export function buildQuality(q: QualityInput): Quality {
       .map((c) => c.key),
     rows_without_any_estimate: q.rowsWithoutEstimate,
     students: students.size,
-    sessions: sessions.size,
+    sessions,
     sessions_spanning_several_units_or_classes: q.sittingsSpanning,
     sessions_replayed_for_order: q.replayed,
     classes: classes.size,

@@ -337,7 +337,8 @@ export class BatchOut implements RowSink {
     ints[i + 4] = flags;
     const f = this.n * (this.k + 1);
     this.floats[f] = time;
-    this.floats.set(values, f + 1);
+    const floats = this.floats;
+    for (let c = 0; c < this.k; c++) floats[f + 1 + c] = values[c]!;
     // The row continues the open segment when it changes neither sitting nor part and comes later.
     const stride = 2 + SEG_STRIDE * this.k;
     if (!this.segmentOpen || flags !== 0 || !(time > this.segmentLast)) {

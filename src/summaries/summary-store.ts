@@ -112,6 +112,55 @@ export class SummaryStore implements Iterable<SessionSummary> {
     this.longest = grow(this.longest, size);
   }
 
+  /**
+   * The distinct students, sittings, classes, schools, units and days of the kept rows, and the
+   * windows per construct, read from the columns (quality-report.ts; the same as going through
+   * the rows as objects, without making them).
+   */
+  census(): {
+    students: Set<string>;
+    sessions: number;
+    classes: Set<string>;
+    schools: Set<string>;
+    units: Set<string>;
+    days: Set<string>;
+    windowsBy: Map<string, number>;
+  } {
+    const students = new Set<string>();
+    const days = new Set<string>();
+    const partUsed = new Uint8Array(this.parts.length);
+    const windows = new Float64Array(this.keys.length);
+    let sessions = 0;
+    const n = Math.min(this.rowCount.length, this.students.length);
+    for (let s = 0; s < n; s++) {
+      const count = this.rowCount[s]!;
+      if (count === 0) continue;
+      sessions++;
+      students.add(this.students[s]!);
+      days.add(this.days[this.dayOf[s]!]!);
+      const start = this.rowStart[s]!;
+      for (let r = start; r < start + count; r++) {
+        partUsed[this.part[r]!] = 1;
+        windows[this.construct[r]!]! += this.windows[r]!;
+      }
+    }
+    const classes = new Set<string>();
+    const schools = new Set<string>();
+    const units = new Set<string>();
+    for (let p = 0; p < partUsed.length; p++) {
+      if (partUsed[p] === 0) continue;
+      const part = this.parts[p]!;
+      classes.add(part.classId);
+      schools.add(part.schoolId);
+      units.add(part.unitId);
+    }
+    const windowsBy = new Map<string, number>();
+    for (let k = 0; k < this.keys.length; k++) {
+      if (windows[k]! > 0) windowsBy.set(this.keys[k]!, windows[k]!);
+    }
+    return { students, sessions, classes, schools, units, days, windowsBy };
+  }
+
   /** Windows with an estimate, per construct, over the kept rows. */
   windowsByConstruct(): Float64Array {
     const out = new Float64Array(this.keys.length);

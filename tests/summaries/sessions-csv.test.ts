@@ -103,6 +103,27 @@ describe("sessions.csv from the column store", () => {
     }
   });
 
+  it("counts the same students, sittings, classes, schools, units, days and windows as the objects", () => {
+    for (const [windows, card] of [
+      [cases.demoWindows, cases.demoCard],
+      [cases.messyWindows, cases.messyCard],
+    ] as const) {
+      const result = summarizeWindowsFile(windows, loadCard(card), DEFAULT_SETTINGS);
+      const objects = [...result.summaries];
+      const census = result.store.census();
+      expect(census.sessions).toBe(new Set(objects.map((s) => `${s.studentId}/${s.sessionId}`)).size);
+      expect(census.students).toEqual(new Set(objects.map((s) => s.studentId)));
+      expect(census.classes).toEqual(new Set(objects.map((s) => s.classId)));
+      expect(census.schools).toEqual(new Set(objects.map((s) => s.schoolId)));
+      expect(census.units).toEqual(new Set(objects.map((s) => s.unitId)));
+      expect(census.days).toEqual(new Set(objects.map((s) => s.day)));
+      const windowsBy = new Map<string, number>();
+      for (const s of objects) windowsBy.set(s.construct, (windowsBy.get(s.construct) ?? 0) + s.windows);
+      expect(census.windowsBy).toEqual(windowsBy);
+      expect(census.students.size).toBeGreaterThan(5);
+    }
+  });
+
   it("iterates the same summaries, in the same order, as the objects", () => {
     const result = summarizeWindowsFile(cases.messyWindows, loadCard(cases.messyCard), DEFAULT_SETTINGS);
     expect([...result.store]).toEqual(result.summaries);
