@@ -14,7 +14,11 @@ export const SEG_WINDOWS = 0;
 export const SEG_SUM_P = 1;
 export const SEG_SUM_P2 = 2;
 export const SEG_ABOVE = 3;
-/** The run that begins at the first estimate: its length when it ended inside the segment (0: the first estimate was below). */
+/**
+ * The run that begins at the first estimate: its length once it has ended inside the segment (0:
+ * the first estimate was below the threshold); -1 while it has not ended (every estimate so far
+ * belongs to it, or there is none yet).
+ */
 export const SEG_LEAD = 4;
 /** The run open at the last estimate: its length (0: none). */
 export const SEG_OPEN = 5;
@@ -24,14 +28,12 @@ export const SEG_LONGEST = 7;
 /** Times of the first and the last estimate. */
 export const SEG_FIRST = 8;
 export const SEG_LAST = 9;
-/** 1 while every estimate so far belongs to the leading run. */
-export const SEG_WHOLE = 10;
-export const SEG_STRIDE = 11;
+export const SEG_STRIDE = 10;
 
 /**
- * Adds a window to the segment whose per-construct numbers start at `at` in `seg` (zeroed, with
- * SEG_WHOLE at 1, by startSegment). `values[k]` is the raw probability, NaN when not estimated.
- * Returns whether the window carried any estimate.
+ * Adds a window to the segment whose per-construct numbers start at `at` in `seg` (as
+ * startSegment leaves them). `values[k]` is the raw probability, NaN when not estimated. Returns
+ * whether the window carried any estimate.
  */
 export function addToSegment(
   plan: ConstructPlan,
@@ -40,47 +42,48 @@ export function addToSegment(
   time: number,
   values: Float64Array,
 ): boolean {
+  const { thresholds, minRun, calibrate, adjacentMs } = plan;
   let any = false;
-  for (let k = 0; k < values.length; k++) {
+  for (let k = 0, b = at; k < values.length; k++, b += SEG_STRIDE) {
     const p = values[k]!;
     if (Number.isNaN(p)) continue;
     any = true;
-    const cal = plan.calibrate[k];
+    const cal = calibrate[k];
     const pc = cal ? cal(p) : p;
-    const b = at + k * SEG_STRIDE;
-    const first = seg[b + SEG_WINDOWS] === 0;
-    seg[b + SEG_WINDOWS]!++;
+    if (seg[b + SEG_WINDOWS] === 0) seg[b + SEG_FIRST] = time;
+    seg[b + SEG_WINDOWS]! += 1;
     seg[b + SEG_SUM_P]! += Math.round(pc * SCALE);
     seg[b + SEG_SUM_P2]! += Math.round(pc * pc * SCALE);
-    if (p >= plan.thresholds[k]!) {
-      seg[b + SEG_ABOVE]!++;
-      if (first) seg[b + SEG_OPEN] = 1;
-      else if (seg[b + SEG_OPEN]! > 0 && time - seg[b + SEG_LAST]! <= plan.adjacentMs) seg[b + SEG_OPEN]!++;
+    const open = seg[b + SEG_OPEN]!;
+    if (p >= thresholds[k]!) {
+      seg[b + SEG_ABOVE]! += 1;
+      // No run open: the first estimate starts the leading run, a later one a new run.
+      if (open === 0) seg[b + SEG_OPEN] = 1;
+      else if (time - seg[b + SEG_LAST]! <= adjacentMs) seg[b + SEG_OPEN] = open + 1;
       else {
-        closeSegmentRun(plan, seg, b, k);
+        closeSegmentRun(seg, b, open, minRun[k]!);
         seg[b + SEG_OPEN] = 1;
       }
-    } else closeSegmentRun(plan, seg, b, k);
-    if (first) seg[b + SEG_FIRST] = time;
+    } else if (open > 0 || seg[b + SEG_LEAD]! < 0) {
+      // Ends the open run; with none, the first estimate below the threshold: no leading run.
+      closeSegmentRun(seg, b, open, minRun[k]!);
+      seg[b + SEG_OPEN] = 0;
+    }
     seg[b + SEG_LAST] = time;
   }
   return any;
 }
 
-function closeSegmentRun(plan: ConstructPlan, seg: Float64Array, b: number, k: number): void {
-  const length = seg[b + SEG_OPEN]!;
-  if (seg[b + SEG_WHOLE] === 1) {
-    seg[b + SEG_LEAD] = length;
-    seg[b + SEG_WHOLE] = 0;
-  } else if (length > 0) {
-    if (length >= plan.minRun[k]!) seg[b + SEG_EPISODES]!++;
+function closeSegmentRun(seg: Float64Array, b: number, length: number, minRun: number): void {
+  if (seg[b + SEG_LEAD]! < 0) seg[b + SEG_LEAD] = length;
+  else {
+    if (length >= minRun) seg[b + SEG_EPISODES]! += 1;
     if (length > seg[b + SEG_LONGEST]!) seg[b + SEG_LONGEST] = length;
   }
-  seg[b + SEG_OPEN] = 0;
 }
 
-/** Zeroes a segment's numbers for `constructs` constructs from `at`. */
+/** Makes ready a segment's numbers for `constructs` constructs from `at`. */
 export function startSegment(seg: Float64Array, at: number, constructs: number): void {
   seg.fill(0, at, at + constructs * SEG_STRIDE);
-  for (let k = 0; k < constructs; k++) seg[at + k * SEG_STRIDE + SEG_WHOLE] = 1;
+  for (let k = 0; k < constructs; k++) seg[at + k * SEG_STRIDE + SEG_LEAD] = -1;
 }

@@ -29,7 +29,6 @@ import {
   SEG_STRIDE,
   SEG_SUM_P,
   SEG_SUM_P2,
-  SEG_WHOLE,
   SEG_WINDOWS,
 } from "./segment.js";
 import type { RowNumbers, SummaryStore } from "./summary-store.js";
@@ -216,7 +215,7 @@ export class SessionAccumulator {
       acc[base + SUM_P]! += seg[b + SEG_SUM_P]!;
       acc[base + SUM_P2]! += seg[b + SEG_SUM_P2]!;
       acc[base + ABOVE]! += seg[b + SEG_ABOVE]!;
-      const whole = seg[b + SEG_WHOLE] === 1;
+      const whole = seg[b + SEG_LEAD]! < 0;
       const lead = whole ? seg[b + SEG_OPEN]! : seg[b + SEG_LEAD]!;
       if (lead > 0) {
         if (runLength[k]! > 0 && seg[b + SEG_FIRST]! - this.lastEstimate[k]! <= plan.adjacentMs) {

@@ -15,7 +15,7 @@ import type { Card } from "../../src/config/types.js";
 import { summarizeWindowsFile, type WindowsResult } from "../../src/ingest/windows.js";
 import { setBatchRows } from "../../src/ingest/windows-thread.js";
 import { createRandom, type Random } from "../../src/stats/random.js";
-import { addToSegment, startSegment } from "../../src/summaries/segment.js";
+import { addToSegment, SEG_STRIDE, startSegment } from "../../src/summaries/segment.js";
 import { ConstructPlan, SessionAccumulator } from "../../src/summaries/session-accumulator.js";
 import { sessionsCsv } from "../../src/summaries/sessions-csv.js";
 import { testCard, testConstruct } from "../support/cards.js";
@@ -141,7 +141,7 @@ describe("segments and repeated leading ids", () => {
       const ids = (id: number) => ({ classId: `c${id}`, schoolId: "", unitId: "u", activityId: "" });
       for (let w = 0; w < n; w++)
         byRow.add(times[w]!, 0, byRow.partIndex(partOf[w]!, ids(partOf[w]!)), values[w]!);
-      const seg = new Float64Array(3 * 11);
+      const seg = new Float64Array(3 * SEG_STRIDE);
       for (let w = 0; w < n; ) {
         // A segment: one part, cut at random.
         let end = w + 1;
