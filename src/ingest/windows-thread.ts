@@ -21,6 +21,7 @@ import type { ReadEnd } from "./csv-records.js";
 import {
   countDeferred,
   type DeferredRejects,
+  ENTERED,
   type Layout,
   type RowSink,
   WindowsParser,
@@ -200,6 +201,23 @@ class PartFeed {
         const values = this.values;
         const k = values.length;
         const { ints, floats, segInts, segFloats } = m;
+        if (m.segments < 0) {
+          // A batch without segments: its rows one by one.
+          for (let r = 0; r < m.n; r++) {
+            const f = r * (k + 1);
+            for (let c = 0; c < k; c++) values[c] = floats[f + 1 + c]!;
+            const i = r * INTS;
+            reducer.row(
+              sittingOf[ints[i]!]!,
+              partOf[ints[i + 1]!]!,
+              floats[f]!,
+              ints[i + 3]!,
+              ints[i + 2]! + lineBase,
+              values,
+              ints[i + 4]!,
+            );
+          }
+        }
         const segStride = 2 + SEG_STRIDE * k;
         for (let g = 0; g < m.segments; g++) {
           const gi = g * SEG_INTS;
@@ -297,6 +315,9 @@ export class BatchOut implements RowSink {
   private segFloats: Float64Array = new Float64Array(0);
   private segmentOpen = false;
   private segmentLast = 0;
+  /** Whether this batch is cut into segments; rows of this batch that entered another sitting. */
+  private segmenting = true;
+  private entered = 0;
 
   constructor(
     private readonly card: Card,
@@ -339,6 +360,11 @@ export class BatchOut implements RowSink {
     this.floats[f] = time;
     const floats = this.floats;
     for (let c = 0; c < this.k; c++) floats[f + 1 + c] = values[c]!;
+    if ((flags & ENTERED) !== 0) this.entered++;
+    if (!this.segmenting) {
+      if (++this.n === batchRows) this.flush();
+      return;
+    }
     // The row continues the open segment when it changes neither sitting nor part and comes later.
     const stride = 2 + SEG_STRIDE * this.k;
     if (!this.segmentOpen || flags !== 0 || !(time > this.segmentLast)) {
@@ -370,10 +396,15 @@ export class BatchOut implements RowSink {
       floats: this.floats,
       sittings: this.sittings,
       parts: this.parts,
-      segments: this.segments,
+      segments: this.segmenting ? this.segments : -1,
       segInts: this.segInts,
       segFloats: this.segFloats,
     };
+    // Segments pay when sittings come in stretches; rows that mostly change sitting (unsorted
+    // input) would make one segment each, several times the bytes of the row: then the next
+    // batch goes without (its rows reduced one by one).
+    this.segmenting = this.entered * 4 < this.n;
+    this.entered = 0;
     this.post(m, [
       this.ints.buffer as ArrayBuffer,
       this.floats.buffer as ArrayBuffer,
