@@ -821,6 +821,23 @@ export class WindowsParser {
       starts[col] = p;
       const role = roles[col]!;
       if (role === ROLE_VALUE) {
+        // Most often "0." and decimals: one comparison a digit (the general loop below reads the same).
+        if (buf[p] === 48 && p + 1 < end && buf[p + 1] === 46) {
+          let m = 0;
+          let q = p + 2;
+          for (; q < end; q++) {
+            const d = buf[q]! - 48;
+            if (d >>> 0 > 9) break;
+            m = m * 10 + d;
+          }
+          const fraction = q - p - 2;
+          if (fraction >= 1 && fraction <= 14 && (q === end || buf[q] === 44)) {
+            values[roleArgs[col]!] = m / POW10[fraction]!;
+            ends[col] = q;
+            p = q + 1;
+            continue;
+          }
+        }
         // A plain decimal, read as parseNumber reads it; anything else goes the ordinary way.
         let m = 0;
         let digits = 0;
