@@ -14,7 +14,7 @@ import { type Effects, processEffects } from "../effects.js";
 import { EXIT, ReportError, UsageError } from "../errors.js";
 import { formatQuality } from "../ingest/quality-report.js";
 import { msg } from "../messages.js";
-import { checkOutputDir, writeFileAtomically } from "../output/atomic.js";
+import { checkOutputDir, writeFileAtomicallyOverlapped } from "../output/atomic.js";
 import { type InputPaths, requireSessions, streamInputs } from "../pipeline/inputs.js";
 import { sqlCommand } from "../sql/sql-command.js";
 import { sessionsCsv } from "../summaries/sessions-csv.js";
@@ -187,7 +187,7 @@ export async function run(argv: string[], effects: Effects): Promise<number> {
       { hash: false, threads: threadsOption(values.threads) },
     );
     requireSessions(inputs);
-    writeFileAtomically(out, sessionsCsv(inputs.summaries, inputs.hasActivity));
+    await writeFileAtomicallyOverlapped(out, sessionsCsv(inputs.summaries, inputs.hasActivity));
     for (const line of formatQuality(inputs.quality)) effects.err(line);
     effects.out(`wrote ${resolve(out)}`);
   } else if (command === "check") {

@@ -299,7 +299,7 @@ export interface WindowsOptions {
  */
 const ROUND_BYTES = 32 * 1024 * 1024;
 const PROBE_BYTES = 1024 * 1024;
-const SORTED_SHARE = 0.42;
+const SORTED_SHARE = 0.46;
 const SHUFFLED_SHARE = 0.35;
 
 /** Files from this size on are read by two threads when two cores are there: below it, starting a worker does not pay. */

@@ -17,6 +17,7 @@ import {
   statSync,
   writeSync,
 } from "node:fs";
+import { open } from "node:fs/promises";
 import { basename, dirname, join, resolve } from "node:path";
 import { UsageError } from "../errors.js";
 
@@ -107,11 +108,65 @@ export function writeChunks(
   }
 }
 
-/** Writes one file through a temporary name in the same folder, then renames it into place. */
-export function writeFileAtomically(
+/** Chunks handed to the file system and not yet written, at most (see writeChunksOverlapped). */
+const WRITES_AHEAD = 4;
+
+/**
+ * writeChunks with the writing overlapped with making the next chunks: each chunk is written at
+ * its position by libuv's thread pool while this thread goes on with the generator, and this
+ * thread waits only when WRITES_AHEAD chunks are still being written. For a large sessions.csv
+ * the writing (a tenth of a second per hundred megabytes) then hides behind the formatting.
+ */
+export async function writeChunksOverlapped(
+  path: string,
+  content: Iterable<string | Uint8Array>,
+): Promise<void> {
+  const handle = await open(path, "w");
+  const pending: Promise<void>[] = [];
+  try {
+    let position = 0;
+    for (const chunk of content) {
+      const bytes = typeof chunk === "string" ? Buffer.from(chunk, "utf8") : chunk;
+      if (bytes.length === 0) continue;
+      const at = position;
+      position += bytes.length;
+      const write = (async () => {
+        let done = 0;
+        while (done < bytes.length) {
+          const { bytesWritten } = await handle.write(bytes, done, bytes.length - done, at + done);
+          done += bytesWritten;
+        }
+      })();
+      // Awaited below; a failure is never left unhandled meanwhile.
+      write.catch(() => {});
+      pending.push(write);
+      if (pending.length >= WRITES_AHEAD) await pending.shift();
+    }
+    await Promise.all(pending);
+  } finally {
+    // Writes still in flight (when the content failed) end before the file is closed.
+    await Promise.allSettled(pending);
+    await handle.close();
+  }
+}
+
+/** writeFileAtomically, with the writing overlapped with making the chunks (writeChunksOverlapped). */
+export async function writeFileAtomicallyOverlapped(
   target: string,
-  content: string | Uint8Array | Iterable<string | Uint8Array>,
-): void {
+  content: Iterable<string | Uint8Array>,
+): Promise<void> {
+  const { file, tmp } = atomicTarget(target);
+  try {
+    await writeChunksOverlapped(tmp, content);
+    renameSync(tmp, file);
+  } catch (error) {
+    rmSync(tmp, { force: true });
+    throw error;
+  }
+}
+
+/** The file and its temporary name for writing `target` atomically, after checking the folder. */
+function atomicTarget(target: string): { file: string; tmp: string } {
   const file = resolve(target);
   if (!existsSync(dirname(file)))
     throw new UsageError(`--out ${target}: the folder ${dirname(file)} does not exist.`);
@@ -121,6 +176,15 @@ export function writeFileAtomically(
     dirname(file),
     `.${basename(file)}.partial-${process.pid}-${randomBytes(4).toString("hex")}`,
   );
+  return { file, tmp };
+}
+
+/** Writes one file through a temporary name in the same folder, then renames it into place. */
+export function writeFileAtomically(
+  target: string,
+  content: string | Uint8Array | Iterable<string | Uint8Array>,
+): void {
+  const { file, tmp } = atomicTarget(target);
   try {
     writeChunks(tmp, content);
     renameSync(tmp, file);

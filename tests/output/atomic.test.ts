@@ -7,7 +7,12 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { UsageError } from "../../src/errors.js";
-import { MANIFEST_TOOL, writeFileAtomically, writeFolderAtomically } from "../../src/output/atomic.js";
+import {
+  MANIFEST_TOOL,
+  writeFileAtomically,
+  writeFileAtomicallyOverlapped,
+  writeFolderAtomically,
+} from "../../src/output/atomic.js";
 
 function parent(): string {
   return mkdtempSync(join(tmpdir(), "er-atomic-"));
@@ -175,5 +180,40 @@ describe("writeFileAtomically", () => {
     expect(() => writeFileAtomically(join(dir, "nope", "s.csv"), "x")).toThrow(/does not exist/);
     expect(readdirSync(dir)).toEqual(["out"]);
     expect(readdirSync(join(dir, "out"))).toEqual([]);
+  });
+});
+
+describe("writeFileAtomicallyOverlapped", () => {
+  it("writes every chunk at its place, however many are in flight", async () => {
+    const dir = parent();
+    const target = join(dir, "sessions.csv");
+    writeFileSync(target, "old\n");
+    const chunks: (string | Uint8Array)[] = [];
+    let expected = "";
+    for (let i = 0; i < 200; i++) {
+      // Strings, bytes and empty chunks of different sizes, some with multi-byte characters.
+      const text = i % 17 === 0 ? "" : `${i}:${"é".repeat(i % 5)}${"x".repeat((i * 7919) % 70_000)}\n`;
+      chunks.push(i % 2 === 0 ? text : Buffer.from(text, "utf8"));
+      expected += text;
+    }
+    await writeFileAtomicallyOverlapped(target, chunks);
+    expect(readFileSync(target, "utf8")).toBe(expected);
+    expect(readdirSync(dir)).toEqual(["sessions.csv"]);
+  });
+
+  it("leaves the old file intact and no temporary file when making the chunks fails midway", async () => {
+    const dir = parent();
+    const target = join(dir, "sessions.csv");
+    writeFileSync(target, "old contents\n");
+    function* failing(): Generator<string> {
+      for (let i = 0; i < 10; i++) yield `s${i},bored\n`.repeat(10_000);
+      throw new Error("summaries failed");
+    }
+    await expect(writeFileAtomicallyOverlapped(target, failing())).rejects.toThrow("summaries failed");
+    expect(readFileSync(target, "utf8")).toBe("old contents\n");
+    expect(readdirSync(dir)).toEqual(["sessions.csv"]);
+    await expect(writeFileAtomicallyOverlapped(join(dir, "nope", "s.csv"), ["x"])).rejects.toThrow(
+      /does not exist/,
+    );
   });
 });
