@@ -239,7 +239,7 @@ function* storeCsv(store: SummaryStore, withActivity: boolean): Generator<Uint8A
   const out = new CsvBytes();
   out.ascii(csvLine(sessionColumns(withActivity)));
   const text = new TextBytes();
-  const cols = store.columns();
+  const mask = store.blockMask;
   const constructCells = store.keys.map((key) => Buffer.from(`${textCell(key)},`, "utf8"));
   // The line's start (student, class, school, unit, activity, session, day), made once per sitting and part.
   let prefix = new Uint8Array(0);
@@ -247,7 +247,9 @@ function* storeCsv(store: SummaryStore, withActivity: boolean): Generator<Uint8A
     const sitting = store.sitting(s);
     let prefixPart = -1;
     for (const r of store.rowsOf(s)) {
-      const partId = cols.part[r]!;
+      const cols = store.blockOf(r);
+      const i = r & mask;
+      const partId = cols.part[i]!;
       if (partId !== prefixPart) {
         const part = store.parts[partId]!;
         const cells = [
@@ -270,13 +272,13 @@ function* storeCsv(store: SummaryStore, withActivity: boolean): Generator<Uint8A
       }
       out.line(
         prefix,
-        constructCells[cols.construct[r]!]!,
-        cols.windows[r]!,
-        cols.sumP[r]!,
-        cols.sumP2[r]!,
-        cols.above[r]!,
-        cols.episodes[r]!,
-        cols.longest[r]!,
+        constructCells[cols.construct[i]!]!,
+        cols.windows[i]!,
+        cols.sumP[i]!,
+        cols.sumP2[i]!,
+        cols.above[i]!,
+        cols.episodes[i]!,
+        cols.longest[i]!,
       );
     }
     if (out.full) yield out.take();

@@ -4,6 +4,12 @@
  * heap; a row here costs 37, so a run of ten million windows (a million summaries) no longer holds
  * its result as objects. The rows come out in the order of compareSummaries, as objects made on
  * the fly (iterating the store) or written straight to sessions.csv (sessions-csv.ts), without a copy.
+ *
+ * The rows live in blocks of a fixed number of rows (the first block grows to that size), not in
+ * arrays grown by doubling: doubling copied every row into arrays twice the size and left the old
+ * ones to the garbage collector, which at a million rows held about 40 MB of dead copies at the end
+ * of the ingest (a heap snapshot's live ArrayBuffers against the process's), beside up to half the
+ * capacity unused.
  */
 
 import type { PartIds } from "./session-accumulator.js";
@@ -20,16 +26,54 @@ export interface RowNumbers {
   longest: number;
 }
 
+/** Rows of a block: 2^16 (about 2.4 MB of columns). */
+export const BLOCK_ROWS_LOG2 = 16;
+
+/** The columns of a block of rows; row r is at index r & (block size − 1) of block r >> log2(block size). */
+export interface RowBlock {
+  readonly part: Int32Array;
+  readonly construct: Uint8Array;
+  readonly windows: Int32Array;
+  readonly sumP: Float64Array;
+  readonly sumP2: Float64Array;
+  readonly above: Int32Array;
+  readonly episodes: Int32Array;
+  readonly longest: Int32Array;
+}
+
+function newBlock(rows: number): RowBlock {
+  return {
+    part: new Int32Array(rows),
+    construct: new Uint8Array(rows),
+    windows: new Int32Array(rows),
+    sumP: new Float64Array(rows),
+    sumP2: new Float64Array(rows),
+    above: new Int32Array(rows),
+    episodes: new Int32Array(rows),
+    longest: new Int32Array(rows),
+  };
+}
+
+/** A block of `rows` rows holding the first rows of `b`. */
+function grownBlock(b: RowBlock, rows: number): RowBlock {
+  const out = newBlock(rows);
+  out.part.set(b.part);
+  out.construct.set(b.construct);
+  out.windows.set(b.windows);
+  out.sumP.set(b.sumP);
+  out.sumP2.set(b.sumP2);
+  out.above.set(b.above);
+  out.episodes.set(b.episodes);
+  out.longest.set(b.longest);
+  return out;
+}
+
 export class SummaryStore implements Iterable<SessionSummary> {
-  /** Per row. */
-  private part = new Int32Array(1024);
-  private construct = new Uint8Array(1024);
-  private windows = new Int32Array(1024);
-  private sumP = new Float64Array(1024);
-  private sumP2 = new Float64Array(1024);
-  private above = new Int32Array(1024);
-  private episodes = new Int32Array(1024);
-  private longest = new Int32Array(1024);
+  /** Per row, in blocks (the last is being filled). */
+  private readonly blocks: RowBlock[];
+  /** log2 of the rows of a full block, and that size less one (a row's index within its block). */
+  readonly blockShift: number;
+  readonly blockMask: number;
   private used = 0;
   /** Per sitting: its rows (start, count; count 0 for none), and its day as an index into days. */
   private rowStart = new Int32Array(1024);
@@ -47,7 +91,13 @@ export class SummaryStore implements Iterable<SessionSummary> {
     readonly students: readonly string[],
     readonly sessions: readonly string[],
     readonly parts: readonly PartIds[],
-  ) {}
+    /** log2 of the rows of a block (smaller in tests, to put block ends inside sittings). */
+    blockRowsLog2 = BLOCK_ROWS_LOG2,
+  ) {
+    this.blockShift = blockRowsLog2;
+    this.blockMask = (1 << blockRowsLog2) - 1;
+    this.blocks = [newBlock(Math.min(1024, 1 << blockRowsLog2))];
+  }
 
   /** Rows of the kept sittings (a sitting kept again replaces its earlier rows). */
   get length(): number {
@@ -87,29 +137,36 @@ export class SummaryStore implements Iterable<SessionSummary> {
 
   /** Adds a row to the sitting begun last. */
   add(s: number, part: number, construct: number, n: RowNumbers): void {
-    if (this.used === this.part.length) this.growRows();
-    const r = this.used++;
-    this.part[r] = part;
-    this.construct[r] = construct;
-    this.windows[r] = n.windows;
-    this.sumP[r] = n.sumP;
-    this.sumP2[r] = n.sumP2;
-    this.above[r] = n.above;
-    this.episodes[r] = n.episodes;
-    this.longest[r] = n.longest;
+    const r = this.used;
+    const b = this.roomFor(r);
+    const i = r & this.blockMask;
+    b.part[i] = part;
+    b.construct[i] = construct;
+    b.windows[i] = n.windows;
+    b.sumP[i] = n.sumP;
+    b.sumP2[i] = n.sumP2;
+    b.above[i] = n.above;
+    b.episodes[i] = n.episodes;
+    b.longest[i] = n.longest;
+    this.used = r + 1;
     this.rowCount[s]!++;
   }
 
-  private growRows(): void {
-    const size = this.part.length * 2;
-    this.part = grow(this.part, size);
-    this.construct = grow(this.construct, size);
-    this.windows = grow(this.windows, size);
-    this.sumP = grow(this.sumP, size);
-    this.sumP2 = grow(this.sumP2, size);
-    this.above = grow(this.above, size);
-    this.episodes = grow(this.episodes, size);
-    this.longest = grow(this.longest, size);
+  /** The block that holds row r (r is the next row), made or grown when needed. */
+  private roomFor(r: number): RowBlock {
+    const k = r >>> this.blockShift;
+    if (k === this.blocks.length) this.blocks.push(newBlock(this.blockMask + 1));
+    const b = this.blocks[k]!;
+    if ((r & this.blockMask) < b.part.length) return b;
+    // Only the first block grows (to a full block, by doubling).
+    const grown = grownBlock(b, Math.min(b.part.length * 2, this.blockMask + 1));
+    this.blocks[k] = grown;
+    return grown;
+  }
+
+  /** The columns of the block holding row r (read only; valid until the next add). */
+  blockOf(r: number): RowBlock {
+    return this.blocks[r >>> this.blockShift]!;
   }
 
   /**
@@ -140,8 +197,10 @@ export class SummaryStore implements Iterable<SessionSummary> {
       days.add(this.days[this.dayOf[s]!]!);
       const start = this.rowStart[s]!;
       for (let r = start; r < start + count; r++) {
-        partUsed[this.part[r]!] = 1;
-        windows[this.construct[r]!]! += this.windows[r]!;
+        const b = this.blockOf(r);
+        const i = r & this.blockMask;
+        partUsed[b.part[i]!] = 1;
+        windows[b.construct[i]!]! += b.windows[i]!;
       }
     }
     const classes = new Set<string>();
@@ -165,7 +224,9 @@ export class SummaryStore implements Iterable<SessionSummary> {
   windowsByConstruct(): Float64Array {
     const out = new Float64Array(this.keys.length);
     this.eachRow((r) => {
-      out[this.construct[r]!]! += this.windows[r]!;
+      const b = this.blockOf(r);
+      const i = r & this.blockMask;
+      out[b.construct[i]!]! += b.windows[i]!;
     });
     return out;
   }
@@ -185,23 +246,32 @@ export class SummaryStore implements Iterable<SessionSummary> {
     const start = this.rowStart[s]!;
     const count = this.rowCount[s]!;
     const rows: number[] = new Array(count);
+    const first = count > 0 ? this.partOf(start) : 0;
     let onePart = true;
     for (let i = 0; i < count; i++) {
       rows[i] = start + i;
-      if (this.part[start + i] !== this.part[start]) onePart = false;
+      if (this.partOf(start + i) !== first) onePart = false;
     }
     if (onePart) return rows;
     return rows.sort((x, y) => {
-      const p = this.parts[this.part[x]!]!;
-      const q = this.parts[this.part[y]!]!;
+      const p = this.parts[this.partOf(x)]!;
+      const q = this.parts[this.partOf(y)]!;
       return (
         cmp(p.classId, q.classId) ||
         cmp(p.schoolId, q.schoolId) ||
         cmp(p.unitId, q.unitId) ||
         cmp(p.activityId, q.activityId) ||
-        this.construct[x]! - this.construct[y]!
+        this.constructOf(x) - this.constructOf(y)
       );
     });
+  }
+
+  private partOf(r: number): number {
+    return this.blockOf(r).part[r & this.blockMask]!;
+  }
+
+  private constructOf(r: number): number {
+    return this.blockOf(r).construct[r & this.blockMask]!;
   }
 
   /** Sittings with rows, by student and session. */
@@ -230,7 +300,9 @@ export class SummaryStore implements Iterable<SessionSummary> {
   }
 
   private summary(r: number, s: number): SessionSummary {
-    const part = this.parts[this.part[r]!]!;
+    const b = this.blockOf(r);
+    const i = r & this.blockMask;
+    const part = this.parts[b.part[i]!]!;
     return {
       studentId: this.students[s]!,
       classId: part.classId,
@@ -239,51 +311,19 @@ export class SummaryStore implements Iterable<SessionSummary> {
       activityId: part.activityId,
       sessionId: this.sessions[s]!,
       day: this.days[this.dayOf[s]!]!,
-      construct: this.keys[this.construct[r]!]!,
-      windows: this.windows[r]!,
-      sumP: this.sumP[r]! / SCALE,
-      sumP2: this.sumP2[r]! / SCALE,
-      above: this.above[r]!,
-      sustainedEpisodes: this.episodes[r]!,
-      longestRun: this.longest[r]!,
+      construct: this.keys[b.construct[i]!]!,
+      windows: b.windows[i]!,
+      sumP: b.sumP[i]! / SCALE,
+      sumP2: b.sumP2[i]! / SCALE,
+      above: b.above[i]!,
+      sustainedEpisodes: b.episodes[i]!,
+      longestRun: b.longest[i]!,
     };
   }
 
   /** The ids of sitting s (student, session, day). */
   sitting(s: number): { studentId: string; sessionId: string; day: string } {
     return { studentId: this.students[s]!, sessionId: this.sessions[s]!, day: this.days[this.dayOf[s]!]! };
-  }
-
-  /**
-   * The row columns themselves, for writers that go through many rows (sessions-csv.ts); read
-   * only, and valid until the next add.
-   */
-  columns(): {
-    readonly part: Int32Array;
-    readonly construct: Uint8Array;
-    readonly windows: Int32Array;
-    readonly sumP: Float64Array;
-    readonly sumP2: Float64Array;
-    readonly above: Int32Array;
-    readonly episodes: Int32Array;
-    readonly longest: Int32Array;
-  } {
-    const { part, construct, windows, sumP, sumP2, above, episodes, longest } = this;
-    return { part, construct, windows, sumP, sumP2, above, episodes, longest };
-  }
-
-  /** Row r's raw columns, for writers that format numbers themselves (sums as multiples of 1e-12). */
-  row(r: number): { part: PartIds; construct: string } & RowNumbers {
-    return {
-      part: this.parts[this.part[r]!]!,
-      construct: this.keys[this.construct[r]!]!,
-      windows: this.windows[r]!,
-      sumP: this.sumP[r]!,
-      sumP2: this.sumP2[r]!,
-      above: this.above[r]!,
-      episodes: this.episodes[r]!,
-      longest: this.longest[r]!,
-    };
   }
 }
 
