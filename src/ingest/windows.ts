@@ -10,8 +10,8 @@
  * value to reject) goes the ordinary way, through the CSV reader's fields and the checks below,
  * which give every rejection its message.
  *
- * Sittings are closed (reduced to their summaries, their accumulators freed) when more than
- * OPEN_SITTINGS are open, least recently seen first, so memory does not grow with the number of
+ * Sittings are closed (reduced to their summaries, their accumulators freed) when more than a
+ * limit are open (see openSittingsFirst), least recently seen first, so memory does not grow with the number of
  * sittings being read.
  *
  * Unsorted input: a sitting whose row arrives out of time order, with a repeated window_start, or
@@ -52,11 +52,22 @@ const OPTIONAL = ["school_id", "activity_id"] as const;
 /** Memory for the rows of replayed sittings held at once (a bucket, or part of one). */
 const REPLAY_BUDGET_BYTES = 64 * 1024 * 1024;
 /**
- * Sittings accumulating at once. A file sorted by time interleaves the sittings under way at the
- * same moment (a few thousand in a large district); beyond this many, the least recently seen
- * sitting is closed, and replayed if it comes back. About 1 KB each.
+ * Sittings accumulating at once: beyond this many, the least recently seen half is closed, and a
+ * closed sitting that comes back is replayed. A file sorted by sitting needs one open at a time; a
+ * file sorted by time interleaves the sittings under way at the same moment (a few thousand in a
+ * large district). So the limit starts low and doubles each time a closed sitting comes back, up
+ * to OPEN_SITTINGS_MAX: an open sitting costs 1–3 KB with what the garbage collector keeps beside
+ * it, and a fixed 16,384 held about 50 MB more at the peak of a sorted ten-million-row file than
+ * 2,048 (bench/RESULTS.md). A file sorted by time pays with the replay of the sittings closed
+ * before the limit reached what it needs (about that many sittings, once).
  */
-const OPEN_SITTINGS = 16384;
+let openSittingsFirst = 1024;
+const OPEN_SITTINGS_MAX = 16384;
+
+/** For tests: the open sittings' first limit from now on (at least 1; it still doubles up to OPEN_SITTINGS_MAX). */
+export function setOpenSittingsFirst(n: number): void {
+  openSittingsFirst = Math.max(1, Math.floor(n));
+}
 /** 2^12 sittings per replay bucket. */
 const BUCKET_SHIFT = 12;
 
@@ -1113,6 +1124,8 @@ export class WindowsReducer implements RowSink {
   /** Per sitting: when it was last entered (a count of entries), to close the least recent. */
   private lastSeen = new Float64Array(1024);
   private entries = 0;
+  /** Open sittings at most (OPEN_SITTINGS_MAX at most; doubled when a closed sitting comes back). */
+  private openLimit = Math.min(openSittingsFirst, OPEN_SITTINGS_MAX);
   /** Accumulators of closed sittings, to serve new ones. */
   private readonly pool: SessionAccumulator[] = [];
   private replayed = 0;
@@ -1187,7 +1200,11 @@ export class WindowsReducer implements RowSink {
     this.rows[s]!++;
     const acc = this.currentAcc;
     if (acc === null) {
-      if (this.state[s] === CLOSED) this.mark(s, line);
+      if (this.state[s] === CLOSED) {
+        this.mark(s, line);
+        // The file interleaves more sittings than are kept open: keep more from now on.
+        this.openLimit = Math.min(OPEN_SITTINGS_MAX, Math.max(this.openLimit, this.open.size) * 2);
+      }
       this.setAside(s, part, line, time, offset, values);
       return;
     }
@@ -1249,14 +1266,14 @@ export class WindowsReducer implements RowSink {
       if (acc) acc.restart(this.students[s]!, this.sessions[s]!);
       else acc = new SessionAccumulator(this.students[s]!, this.sessions[s]!, this.plan!);
       this.open.set(s, acc);
-      if (this.open.size > OPEN_SITTINGS) this.closeLeastRecent(s);
+      if (this.open.size > this.openLimit) this.closeLeastRecent(s);
     }
     this.currentAcc = acc;
   }
 
   /**
    * Closes the less recently entered half of the open sittings (not `keep`): a sweep every
-   * OPEN_SITTINGS / 2 new sittings, cheaper than keeping them in order on every row.
+   * openLimit / 2 new sittings, cheaper than keeping them in order on every row.
    */
   private closeLeastRecent(keep: number): void {
     const stamps = new Float64Array(this.open.size);

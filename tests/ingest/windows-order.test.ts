@@ -56,6 +56,35 @@ describe("row order and row form do not change the summaries", () => {
     expect(interleaved.account.duplicates).toBe(0);
   });
 
+  it("sittings kept open grow to what a file sorted by time interleaves, after the first wave", () => {
+    // Five waves (days) of 3,000 sittings each under way at the same time, twelve windows 20 s
+    // apart, rows sorted by time. The ingest first keeps fewer sittings open than a wave holds:
+    // sittings closed too early in the first wave come back and are replayed, and the limit grows;
+    // later waves then fit. A limit that did not grow would replay most sittings of every wave.
+    const waves = 5;
+    const perWave = 3000;
+    const windows = 12;
+    const p = (s: number, w: number) => ((s * 7 + w * 3) % 10) / 10;
+    const row = (wave: number, s: number, w: number) => {
+      const t = new Date(Date.UTC(2026, 1, 2 + wave, 15, 0, 20 * w)).toISOString().replace(".000Z", "Z");
+      return `st${s},c${s % 7},u${wave},x${wave}-${s},${t},${p(s, w).toFixed(1)}`;
+    };
+    const bySitting: string[] = [];
+    const byTime: string[] = [];
+    for (let wave = 0; wave < waves; wave++) {
+      for (let s = 0; s < perWave; s++) for (let w = 0; w < windows; w++) bySitting.push(row(wave, s, w));
+      for (let w = 0; w < windows; w++) for (let s = 0; s < perWave; s++) byTime.push(row(wave, s, w));
+    }
+    const sorted = summarizeWindowsFile(write("waves-by-sitting.csv", bySitting), card, DEFAULT_SETTINGS);
+    const interleaved = summarizeWindowsFile(write("waves-by-time.csv", byTime), card, DEFAULT_SETTINGS);
+    expect(sorted.replayedSittings).toBe(0);
+    expect(interleaved.replayedSittings).toBeGreaterThan(0);
+    // Only sittings of the first wave: at most its 3,000.
+    expect(interleaved.replayedSittings).toBeLessThanOrEqual(perWave);
+    expect(interleaved.summaries).toEqual(sorted.summaries);
+    expect(sorted.summaries).toHaveLength(waves * perWave);
+  });
+
   it("rows in forms the fast reading passes over are read as their plain forms", () => {
     const plain = [
       "s1,c1,u1,x,2026-02-03T09:00:00-06:00,0.6",
