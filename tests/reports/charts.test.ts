@@ -10,6 +10,7 @@ import {
   SERIES_STYLES,
   TEXT_COLOUR,
 } from "../../src/reports/charts/palette.js";
+import { forgetChartViews } from "../../src/reports/charts/render-view.js";
 import { trendSpec } from "../../src/reports/charts/trend-spec.js";
 import {
   type Chart,
@@ -566,5 +567,44 @@ describe("compiled once per chart kind", () => {
       await createChartRenderer().trend(trendOptions(i % 5));
     }
     expect(chartCompileCount()).toBe(warm);
+  });
+});
+
+describe("views reused from one chart to the next", () => {
+  it("give every chart, byte for byte, what a fresh view gives it alone", async () => {
+    // A mixed sequence: both scales and every format, guides on and off, 0 to 40 rows, missing and
+    // withheld rows, trends of 1 to 4 series and of fewer weeks. The reference for each chart is
+    // the same chart rendered first, on a view made for it (no chart before it on that view).
+    const charts: (() => Promise<Chart>)[] = [];
+    for (let i = 0; i < 24; i++) {
+      const rows = makeRows([12, 1, 0, 40, 5, 7][i % 6]!);
+      const format = (["ratio", "percent", "points"] as const)[i % 3]!;
+      const scale = format === "ratio" && i % 2 === 0 ? "log" : "linear";
+      charts.push(() =>
+        renderer.intervals(
+          intervalOptions({
+            id: `mixed-${i}`,
+            rows,
+            format,
+            scale,
+            axisTitle: `Axis ${i}`,
+            ...(i % 4 === 1 ? { line: undefined } : {}),
+            ...(i % 5 === 2 ? { reference: undefined } : {}),
+          }),
+        ),
+      );
+      if (i % 3 === 0) charts.push(() => renderer.trend(trendOptions(1 + (i % 4), 2 + (i % 5))));
+    }
+    forgetChartViews();
+    const inSequence: string[] = [];
+    for (const chart of charts) inSequence.push((await chart()).svg.html);
+    for (const [i, chart] of charts.entries()) {
+      forgetChartViews();
+      expect((await chart()).svg.html, `chart ${i}`).toBe(inSequence[i]);
+    }
+    // Two charts at once get two views, and still their own output.
+    forgetChartViews();
+    const together = await Promise.all(charts.map((chart) => chart()));
+    expect(together.map((c) => c.svg.html)).toEqual(inSequence);
   });
 });

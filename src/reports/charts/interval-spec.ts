@@ -98,6 +98,9 @@ export function intervalSpec(scaleType: "log" | "linear"): TopLevelSpec {
       "Point-and-interval chart: one row per item, a horizontal line over the plausible range and a mark at the estimate; " +
       "the mark's shape and colour give its reading; vertical lines show the reference and the check line.",
     width: INTERVAL_WIDTH,
+    // The layout is fitted to each chart's content again on every run: a view is reused from
+    // chart to chart (render-view.ts), and without resize the first chart's size would stay.
+    autosize: { type: "pad", resize: true },
     height: { step: ROW_STEP },
     config: CHART_CONFIG,
     params: [

@@ -57,6 +57,9 @@ export function trendSpec(): TopLevelSpec {
       "Weekly trend chart: for each series and week a mark at the estimate and a vertical line over the plausible range, " +
       "weeks joined by a line; series differ by mark shape and line dash and are labelled beside their last week.",
     width: TREND_WIDTH,
+    // The layout is fitted to each chart's content again on every run: a view is reused from
+    // chart to chart (render-view.ts), and without resize the first chart's size would stay.
+    autosize: { type: "pad", resize: true },
     height: TREND_HEIGHT,
     config: CHART_CONFIG,
     params: [
