@@ -11,8 +11,8 @@
  * which give every rejection its message.
  *
  * Sittings are closed (reduced to their summaries, their accumulators freed) when more than a
- * limit are open (see openSittingsFirst), least recently seen first, so memory does not grow with the number of
- * sittings being read.
+ * limit are open (OPEN_SITTINGS_FIRST, growing), least recently seen first, so memory does not
+ * grow with the number of sittings being read.
  *
  * Unsorted input: a sitting whose row arrives out of time order, with a repeated window_start, or
  * after the sitting was closed, is marked for replay; its pass-1 sums are discarded, and from then
@@ -61,13 +61,8 @@ const REPLAY_BUDGET_BYTES = 64 * 1024 * 1024;
  * 2,048 (bench/RESULTS.md). A file sorted by time pays with the replay of the sittings closed
  * before the limit reached what it needs (about that many sittings, once).
  */
-let openSittingsFirst = 1024;
+const OPEN_SITTINGS_FIRST = 1024;
 const OPEN_SITTINGS_MAX = 16384;
-
-/** For tests: the open sittings' first limit from now on (at least 1; it still doubles up to OPEN_SITTINGS_MAX). */
-export function setOpenSittingsFirst(n: number): void {
-  openSittingsFirst = Math.max(1, Math.floor(n));
-}
 /** 2^12 sittings per replay bucket. */
 const BUCKET_SHIFT = 12;
 
@@ -1125,7 +1120,7 @@ export class WindowsReducer implements RowSink {
   private lastSeen = new Float64Array(1024);
   private entries = 0;
   /** Open sittings at most (OPEN_SITTINGS_MAX at most; doubled when a closed sitting comes back). */
-  private openLimit = Math.min(openSittingsFirst, OPEN_SITTINGS_MAX);
+  private openLimit = OPEN_SITTINGS_FIRST;
   /** Accumulators of closed sittings, to serve new ones. */
   private readonly pool: SessionAccumulator[] = [];
   private replayed = 0;

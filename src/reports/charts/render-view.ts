@@ -11,9 +11,6 @@ export interface ViewInput {
 interface Kept {
   readonly view: View;
   readonly messages: string[];
-  /** The view's size as made (autosizing changes it to fit each chart's content). */
-  readonly width: number;
-  readonly height: number;
   /** Whether a chart was rendered on the view. */
   used: boolean;
 }
@@ -39,10 +36,11 @@ export function forgetChartViews(): void {
  * string. No renderer is attached (nothing to draw on screen); `toSVG` builds the markup. A view is
  * reused for the next chart with the same runtime and names: building one from the runtime (its
  * operators and expressions) was over half of a chart's time (294 → 700 charts a second, warm).
- * Before the next chart the view is emptied (its datasets and list signals set empty, and run), its
- * size set back, and every signal and dataset the names list set anew, so nothing of the previous
- * chart remains: the same bytes as a fresh view's (tests/reports/charts.test.ts). Throws if vega logged a warning or error, so that no questionable chart
- * reaches a page; a view that did is not reused.
+ * Before the next chart the view is emptied (its datasets and list signals set empty, and run) and
+ * every signal and dataset the names list is set anew; the specs re-fit their size on every run
+ * (autosize resize). So nothing of the previous chart remains: the same bytes as a fresh view's
+ * (tests/reports/charts.test.ts). Throws if vega logged a warning or error, so that no
+ * questionable chart reaches a page; a view that did is not reused.
  */
 export async function renderSvg(runtime: Runtime, input: ViewInput): Promise<string> {
   const names = `${Object.keys(input.signals).join(",")}|${Object.keys(input.data).join(",")}`;
@@ -60,10 +58,9 @@ export async function renderSvg(runtime: Runtime, input: ViewInput): Promise<str
   if (kept === undefined) {
     const messages: string[] = [];
     const view = new View(runtime, { renderer: "none", logger: collectingLogger(messages) });
-    kept = { view, messages, width: view.width(), height: view.height(), used: false };
+    kept = { view, messages, used: false };
   }
   const { view, messages } = kept;
-  view.width(kept.width).height(kept.height);
   if (kept.used) {
     // Empty the previous chart's marks first: items that stayed would keep their place in the
     // markup, so the chart's bytes would depend on the chart before it.
