@@ -36,7 +36,7 @@ for (let seed = 1; seed <= seeds; seed++) {
     const k = truth.constructs.indexOf(row.construct as never);
     if (row.status === "detector-too-weak") continue;
     rows++;
-    if (row.status === "check-in") {
+    if (row.status === "suggested") {
       checkins++;
       if (nullMode && process.env.SHOW)
         console.log(
@@ -66,14 +66,14 @@ for (let seed = 1; seed <= seeds; seed++) {
     const trueRatio = t.ratio[k]!;
     if (t.planted[k]) {
       planted++;
-      if (row.status === "check-in") recalled++;
+      if (row.status === "suggested") recalled++;
     } else if (
       card.constructs.find((c) => c.key === row.construct)?.higherIs === "good"
         ? trueRatio > 1 / 1.2
         : trueRatio < 1.2
     ) {
       lowTrue++;
-      if (row.status === "check-in") {
+      if (row.status === "suggested") {
         lowFlagged++;
         if (process.env.SHOW)
           console.log(

@@ -113,7 +113,7 @@ function rows(sim: Simulation, planted: Figures, nulls: Figures, all: Figures): 
     const found = [
       unit.length > 0 ? `unit review ${unit.filter((u) => u.status === "review").length}/${unit.length}` : "",
       klass.length > 0
-        ? `class elevated ${klass.filter((k) => k.status === "elevated").length}/${klass.length}`
+        ? `class elevated ${klass.filter((k) => k.status === "concern").length}/${klass.length}`
         : "",
     ]
       .filter(Boolean)

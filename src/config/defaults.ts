@@ -16,7 +16,7 @@ export const DEFAULT_SETTINGS: Settings = {
   period: { from: null, to: null },
   confidence: 0.95,
   strict: false,
-  audiences: ["check-ins", "content", "support", "about"],
+  audiences: ["counselors", "content", "support", "about"],
   evidence: { minMinutes: 30, minSessions: 3, minDays: 2, minStudents: 10 },
   suppressionSize: 10,
   flags: { studentRatio: 1.2, groupRatio: 1.25, unitQ: 0.05 },

@@ -33,7 +33,7 @@ export interface Card {
   readonly constructs: readonly ConstructCard[];
 }
 
-export type Audience = "check-ins" | "content" | "support" | "about";
+export type Audience = "counselors" | "content" | "support" | "about";
 
 export interface Settings {
   readonly title: string;

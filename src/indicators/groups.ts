@@ -169,8 +169,7 @@ export function groupIndicators(
       };
     }
     const why = suppression.reason(x.m.level, x.m.id);
-    if (why !== null)
-      return { ...base, status: "suppressed" as const, share: null, ratio: null, reason: why };
+    if (why !== null) return { ...base, status: "withheld" as const, share: null, ratio: null, reason: why };
     let share: Estimate | null = shrunk.get(x) ?? null;
     if (!share && x.share) share = shareInterval(ctx, x.share);
     const r = x.ratio;
@@ -190,7 +189,7 @@ export function groupIndicators(
     if (correction.mode === "relative") text += ` ${reasons.relative}`;
     return {
       ...base,
-      status: elevated ? ("elevated" as const) : ("typical" as const),
+      status: elevated ? ("concern" as const) : ("typical" as const),
       share,
       ratio: r,
       reason: text,

@@ -138,7 +138,7 @@ function oneStudent(
   if (ctx.correction.mode === "relative") text += ` ${reasons.relative}`;
   return {
     ...base,
-    status: flagged ? "check-in" : "typical",
+    status: flagged ? "suggested" : "typical",
     share,
     peerShare,
     ratio: r,

@@ -1,8 +1,24 @@
 /** The indicator tables: the seam between the indicators stage and the reports. */
 
-export type StudentStatus = "check-in" | "typical" | "too-little-data" | "detector-too-weak";
-export type UnitStatus = "review" | "typical" | "too-little-data" | "detector-too-weak";
-export type GroupStatus = "elevated" | "typical" | "suppressed" | "detector-too-weak";
+/**
+ * Status codes as written in the CSVs. Each has one display word per audience in
+ * src/reports/vocabulary.ts; every page, legend and table takes its words from there.
+ */
+export const STUDENT_STATUSES = [
+  "suggested",
+  "near",
+  "class-wide",
+  "contacted",
+  "typical",
+  "unclear",
+  "too-little-data",
+  "detector-too-weak",
+] as const;
+export const UNIT_STATUSES = ["review", "better", "typical", "too-little-data", "detector-too-weak"] as const;
+export const GROUP_STATUSES = ["concern", "typical", "withheld", "detector-too-weak"] as const;
+export type StudentStatus = (typeof STUDENT_STATUSES)[number];
+export type UnitStatus = (typeof UNIT_STATUSES)[number];
+export type GroupStatus = (typeof GROUP_STATUSES)[number];
 
 /** A figure with its plausible range (the interval at the settings' confidence level). */
 export interface Estimate {

@@ -147,7 +147,7 @@ export function* groupsCsv(rows: readonly GroupIndicator[]): Generator<string> {
       textCell(r.construct),
       r.status,
       // A withheld group's size is withheld too: a count under the suppression size is itself a small-cell figure.
-      r.status === "suppressed" ? "" : String(r.students),
+      r.status === "withheld" ? "" : String(r.students),
       ...estimateCells(r.share),
       ...estimateCells(r.ratio, 3),
       textCell(r.reason),
@@ -174,7 +174,7 @@ export function trendsCsv(rows: readonly TrendRow[]): Generator<string> {
     textCell(r.id),
     textCell(r.construct),
     r.week,
-    r.withheld ? "suppressed" : "shown",
+    r.withheld ? "withheld" : "shown",
     r.withheld ? "" : String(r.windows),
     r.withheld ? "" : String(r.sessions),
     ...estimateCells(r.share),

@@ -26,7 +26,7 @@ export interface PageFrame {
 }
 
 export const FOLDERS: readonly { audience: Audience; label: string; who: string }[] = [
-  { audience: "check-ins", label: "Check-ins", who: "Counselors" },
+  { audience: "counselors", label: "Conversations", who: "Counselors" },
   { audience: "content", label: "Content", who: "Curriculum designers" },
   { audience: "support", label: "Support planning", who: "District coordinators" },
   { audience: "about", label: "About the figures", who: "Everyone" },

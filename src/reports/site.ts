@@ -23,7 +23,8 @@ import { hanleyMcNeilStandardError } from "../stats/hanley-mcneil-standard-error
 import type { Chart, ChartRenderer, IntervalRow, Marker } from "./charts.js";
 import { FOLDERS, frame, href, type PageFrame, type SiteFacts, siteFacts } from "./frame.js";
 import { render, trusted } from "./html.js";
-import { band, STATUS_WORDS, text } from "./text.js";
+import { band, text } from "./text.js";
+import { statusWord } from "./vocabulary.js";
 
 export interface SitePage {
   /** Path below the output folder, with "/" separators. */
@@ -85,7 +86,7 @@ export async function buildSite(input: SiteInput, charts: ChartRenderer): Promis
   };
   const ctx: Ctx = { input, facts, charts, page, index: lookups(input) };
   indexPage(ctx);
-  if (facts.audiences.includes("check-ins")) await checkInPages(ctx);
+  if (facts.audiences.includes("counselors")) await checkInPages(ctx);
   if (facts.audiences.includes("content")) await contentPage(ctx);
   if (facts.audiences.includes("support")) await supportPage(ctx);
   if (facts.audiences.includes("about")) await aboutPage(ctx);
@@ -186,7 +187,7 @@ function indexPage(ctx: Ctx): void {
 }
 
 const FOLDER_WHAT: Record<Audience, string> = {
-  "check-ins": "Students a counselor may want to check in with, and why. Confidential.",
+  counselors: "Students a counselor may want to check in with, and why. Confidential.",
   content:
     "Units where many students showed more boredom, confusion or other states than in the rest of their work.",
   support: "Patterns by school and class, to plan training and support. Not for judging teachers.",
@@ -234,7 +235,7 @@ function displayName(ctx: Ctx, id: string): string {
 }
 
 function marker(row: StudentIndicator): Marker {
-  if (row.status === "check-in") return "concern";
+  if (row.status === "suggested") return "concern";
   if (row.nearLine) return "near";
   return "typical";
 }
@@ -255,13 +256,13 @@ async function checkInPages(ctx: Ctx): Promise<void> {
     audience: "Counselors",
     confidential: true,
     depth: 1,
-    current: "check-ins",
+    current: "counselors",
   });
-  ctx.page("check-ins/index.html", "check-ins", top, "check-ins-index", {
+  ctx.page("counselors/index.html", "counselors", top, "check-ins-index", {
     caseloads: loads.map((c) => ({
       name: c.name,
       href: `${c.slug}/index.html`,
-      checkIns: c.students.filter((id) => byStudent.get(id)?.some((r) => r.status === "check-in")).length,
+      checkIns: c.students.filter((id) => byStudent.get(id)?.some((r) => r.status === "suggested")).length,
       students: c.students.length,
     })),
   });
@@ -272,7 +273,7 @@ async function checkInPages(ctx: Ctx): Promise<void> {
     const little: { name: string; detail: string }[] = [];
     for (const id of load.students) {
       const list = (byStudent.get(id) ?? []).filter((r) => usableKeys.has(r.construct));
-      const checkIns = list.filter((r) => r.status === "check-in");
+      const checkIns = list.filter((r) => r.status === "suggested");
       const nearLine = list.filter((r) => r.nearLine);
       const page = `${studentSlug(id)}.html`;
       if (checkIns.length > 0) {
@@ -306,11 +307,11 @@ async function checkInPages(ctx: Ctx): Promise<void> {
       audience: `Counselors (caseload: ${load.name})`,
       confidential: true,
       depth: 2,
-      current: "check-ins",
+      current: "counselors",
     });
     ctx.page(
-      `check-ins/${load.slug}/index.html`,
-      "check-ins",
+      `counselors/${load.slug}/index.html`,
+      "counselors",
       f,
       "check-ins-list",
       { load, flagged, near, little, line: ctx.input.inputs.settings.flags.studentRatio },
@@ -363,7 +364,7 @@ async function studentPage(
     reference: { value: 1, label: "same as others" },
     line: { value: inputs.settings.flags.studentRatio, label: "check-in line" },
   });
-  const flagged = list.filter((r) => r.status === "check-in" || r.nearLine);
+  const flagged = list.filter((r) => r.status === "suggested" || r.nearLine);
   const trends: Chart[] = [];
   for (const r of flagged.slice(0, 3)) {
     const points = (ctx.index.studentTrends.get(key2(r.construct, id)) ?? []).map((t) => ({
@@ -398,7 +399,7 @@ async function studentPage(
       r.share ? percentText(r.share.value) : "not shown",
       r.share ? `${percentText(r.share.low)} to ${percentText(r.share.high)}` : "",
       r.peerShare !== null ? percentText(r.peerShare) : "",
-      STATUS_WORDS[r.status] ?? r.status,
+      statusWord("student", r.status),
     ]),
     rowHeaders: true,
   };
@@ -418,18 +419,18 @@ async function studentPage(
     audience: `Counselors (caseload: ${load.name})`,
     confidential: true,
     depth: 2,
-    current: "check-ins",
+    current: "counselors",
   });
   ctx.page(
-    `check-ins/${load.slug}/${studentSlug(id)}.html`,
-    "check-ins",
+    `counselors/${load.slug}/${studentSlug(id)}.html`,
+    "counselors",
     f,
     "student",
     {
       summary: flagged.map((r) => ({
         label: label(ctx, r.construct),
         reason: r.reason,
-        status: STATUS_WORDS[r.status] ?? r.status,
+        status: statusWord("student", r.status),
         near: r.nearLine,
       })),
       profile,
@@ -441,7 +442,7 @@ async function studentPage(
       check: text.checkBeforeActing,
       back: "index.html",
     },
-    { caseload: load.slug, student: true, checkIn: list.some((r) => r.status === "check-in") },
+    { caseload: load.slug, student: true, checkIn: list.some((r) => r.status === "suggested") },
   );
 }
 
@@ -478,9 +479,9 @@ function unitContext(ctx: Ctx, id: string, flagged: readonly StudentIndicator[])
 function classNote(ctx: Ctx, r: StudentIndicator): string {
   const g = ctx.index.classes.get(key2(r.construct, r.classId));
   const what = label(ctx, r.construct);
-  if (!g || g.status === "suppressed")
+  if (!g || g.status === "withheld")
     return `${what}: the class figure is withheld (small class), so there is no class context.`;
-  if (g.status === "elevated")
+  if (g.status === "concern")
     return `${what}: many classmates show the same. The cause may be the content or the setting, not this student alone.`;
   return `${what}: the class as a whole is in the usual range.`;
 }
@@ -503,7 +504,7 @@ async function contentPage(ctx: Ctx): Promise<void> {
         low: u.effect?.low ?? null,
         high: u.effect?.high ?? null,
         marker: u.status === "review" ? "concern" : u.effect ? "typical" : "withheld",
-        note: u.effect ? undefined : STATUS_WORDS[u.status],
+        note: u.effect ? undefined : statusWord("unit", u.status),
       })),
       format: "points",
       scale: "linear",
@@ -514,7 +515,7 @@ async function contentPage(ctx: Ctx): Promise<void> {
       columns: ["Unit", "Status", "Students", "Classes", "Chance finding?", "Schools that agree"],
       rows: rows.map((u) => [
         u.unitId,
-        STATUS_WORDS[u.status] ?? u.status,
+        statusWord("unit", u.status),
         band(u.students),
         band(u.classes).replace("fewer than 10", u.classes < 10 ? String(u.classes) : "fewer than 10"),
         u.qValue === null
@@ -539,7 +540,7 @@ async function contentPage(ctx: Ctx): Promise<void> {
             a.activityId,
             `${(a.effect!.value * 100).toFixed(1)}`,
             `${(a.effect!.low * 100).toFixed(1)} to ${(a.effect!.high * 100).toFixed(1)}`,
-            STATUS_WORDS[a.status] ?? a.status,
+            statusWord("unit", a.status),
           ]),
       }));
     sections.push({ label: c.label, key: c.key, chart, table, reviews });
@@ -577,8 +578,8 @@ async function supportPage(ctx: Ctx): Promise<void> {
         value: g.share?.value ?? null,
         low: g.share?.low ?? null,
         high: g.share?.high ?? null,
-        marker: g.status === "suppressed" ? "withheld" : g.status === "elevated" ? "concern" : "typical",
-        note: g.status === "suppressed" ? "withheld" : undefined,
+        marker: g.status === "withheld" ? "withheld" : g.status === "concern" ? "concern" : "typical",
+        note: g.status === "withheld" ? "withheld" : undefined,
       })),
       format: "percent",
       scale: "linear",
@@ -595,13 +596,13 @@ async function supportPage(ctx: Ctx): Promise<void> {
         .map((g) => [
           g.groupId,
           g.parentId,
-          STATUS_WORDS[g.status] ?? g.status,
+          statusWord("group", g.status),
           g.share
             ? `${percentText(g.share.value)} (${percentText(g.share.low)} to ${percentText(g.share.high)})`
             : "withheld",
           g.ratio
             ? `${ratioText(g.ratio.value)} (${ratioRangeText(g.ratio)})`
-            : g.status === "suppressed"
+            : g.status === "withheld"
               ? "withheld"
               : "not available",
         ]),

@@ -27,16 +27,6 @@ export const text = {
   ],
 };
 
-export const STATUS_WORDS: Record<string, string> = {
-  "check-in": "Check in",
-  typical: "Usual range",
-  "too-little-data": "Too little data",
-  "detector-too-weak": "Detector too weak",
-  review: "Review suggested",
-  elevated: "Higher than others",
-  suppressed: "Withheld",
-};
-
 /** Student, class and unit counts in bands, so that content pages do not give exact small counts. */
 export function band(n: number): string {
   const bands: [number, number][] = [

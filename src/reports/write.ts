@@ -23,13 +23,13 @@ export function pdfJobs(
   allStudents = false,
 ): PdfJob[] {
   const jobs: PdfJob[] = [];
-  const lists = pages.filter((p) => p.audience === "check-ins" && p.caseload && !p.student);
+  const lists = pages.filter((p) => p.audience === "counselors" && p.caseload && !p.student);
   for (const list of lists) {
     const students = pages.filter(
       (p) => p.caseload === list.caseload && p.student && (allStudents || p.checkIn),
     );
     jobs.push({
-      path: join(dir, "check-ins", list.caseload as string, `check-ins-${list.caseload}.pdf`),
+      path: join(dir, "counselors", list.caseload as string, `summary-${list.caseload}.pdf`),
       title: `${list.title}, ${siteTitle}`,
       pages: [list.html, ...students.map((s) => s.html)],
     });

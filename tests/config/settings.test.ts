@@ -63,9 +63,9 @@ describe("loadSettings messages", () => {
     expect(c.message).toBe(`${c.path}:1:9: strict: expected true or false, found "yes"`);
     const d = fail("evidence: 3\n");
     expect(d.message).toBe(`${d.path}:1:11: evidence: expected a mapping of keys, found 3`);
-    const e = fail("audiences: [check-ins, parents]\n");
+    const e = fail("audiences: [counselors, parents]\n");
     expect(e.message).toBe(
-      `${e.path}:1:24: audiences.1: expected one of check-ins, content, support, about, found "parents"`,
+      `${e.path}:1:25: audiences.1: expected one of counselors, content, support, about, found "parents"`,
     );
   });
 

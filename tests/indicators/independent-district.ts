@@ -794,7 +794,7 @@ export function scoreRun(
     const c = k.get(row.construct);
     if (!t || c === undefined) throw new Error(`no truth for ${row.studentId} × ${row.construct}`);
     const gated = row.status !== "too-little-data";
-    const flagged = row.status === "check-in";
+    const flagged = row.status === "suggested";
     const ci = bump(into.checkIns, row.construct, () => ({ rows: 0, gated: 0, flagged: 0 }));
     ci.rows++;
     if (gated) ci.gated++;
@@ -850,9 +850,9 @@ export function scoreRun(
     if (g.level !== "class" || !usable.has(g.construct)) continue;
     const isPlanted = plantedClasses.has(g.groupId) && g.construct === truth.planted.class_construct;
     if (isPlanted) into.plantedClasses.push({ classId: g.groupId, construct: g.construct, status: g.status });
-    else if (g.status !== "suppressed") {
+    else if (g.status !== "withheld") {
       into.classes.shown++;
-      if (g.status === "elevated") into.classes.elevated++;
+      if (g.status === "concern") into.classes.elevated++;
     }
   }
 }

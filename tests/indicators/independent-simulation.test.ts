@@ -182,7 +182,7 @@ describe("independent district: units and classes", () => {
   // share could not be told from zero (peer-ratio.ts): those two classes then had no ratio at all.
   it("marks the planted class elevated for off task in every planted run", () => {
     expect(planted.plantedClasses).toHaveLength(PLANTED_SEEDS.length);
-    for (const k of planted.plantedClasses) expect(k.status).toBe("elevated");
+    for (const k of planted.plantedClasses) expect(k.status).toBe("concern");
   });
 
   // Criterion as in simulation.test.ts: with every unit effect 0, Benjamini–Hochberg (1995) keeps the
@@ -212,20 +212,20 @@ describe("the scorer itself, on a hand-made case", () => {
         {
           studentId: "a",
           construct: "bored",
-          status: "check-in",
+          status: "suggested",
           share: { value: 0.15, low: 0.1, high: 0.2 },
           ratio: { value: 1.2, low: 0.9, high: 1.3 },
         },
         {
           studentId: "a",
           construct: "concentrating",
-          status: "check-in",
+          status: "suggested",
           share: { value: 0.5, low: 0.4, high: 0.6 },
         },
         { studentId: "b", construct: "bored", status: "too-little-data", share: null },
       ],
       units: [{ unitId: "u1", construct: "bored", status: "review", pValue: 0.01, qValue: 0.02 }],
-      groups: [{ level: "class", groupId: "k1", construct: "bored", status: "elevated" }],
+      groups: [{ level: "class", groupId: "k1", construct: "bored", status: "concern" }],
       methods: [
         { construct: "bored", usable: true },
         { construct: "concentrating", usable: true },
@@ -265,7 +265,7 @@ describe("the scorer itself, on a hand-made case", () => {
     expect(f.checkIns.get("bored")).toEqual({ rows: 2, gated: 1, flagged: 1 });
     expect(f.plantedUnits).toEqual([{ unitId: "u1", construct: "bored", status: "review", q: 0.02 }]);
     expect(f.units).toEqual({ tested: 1, below05: 1, reviews: 1, runsWithReview: 1, runs: 1 });
-    expect(f.plantedClasses).toEqual([{ classId: "k1", construct: "bored", status: "elevated" }]);
+    expect(f.plantedClasses).toEqual([{ classId: "k1", construct: "bored", status: "concern" }]);
   });
 
   it("takes the binomial upper count from the distribution (n = 6, p = 0.05: P(X ≤ 1) = 0.9672, P(X ≤ 2) = 0.9978)", () => {

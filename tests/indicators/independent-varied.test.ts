@@ -77,7 +77,7 @@ function checkInRate(from: number): { rows: number; flagged: number } {
       const concern = good.has(row.construct) ? 1 / ratio : ratio;
       if (concern < from) continue;
       rows++;
-      if (row.status === "check-in") flagged++;
+      if (row.status === "suggested") flagged++;
     }
   }
   return { rows, flagged };

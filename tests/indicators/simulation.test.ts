@@ -165,7 +165,7 @@ describe("demo district: units and classes", () => {
 
   it("marks the planted class elevated for off task in every planted run", () => {
     expect(planted.plantedClasses).toHaveLength(PLANTED_SEEDS.length);
-    for (const k of planted.plantedClasses) expect(k.status).toBe("elevated");
+    for (const k of planted.plantedClasses) expect(k.status).toBe("concern");
   });
 
   /*

@@ -119,9 +119,9 @@ describe("headers equal the data contract (DATA-CONTRACT.md, outputs)", () => {
   it("every data row has as many cells as the header (csv-parse rejects a ragged row)", () => {
     expect(table(studentsCsv([student(), student({ share: null, ratio: null })]))).toHaveLength(3);
     expect(table(unitsCsv([unit(), unit({ effect: null, pValue: null, qValue: null })]))).toHaveLength(3);
-    expect(
-      table(groupsCsv([group(), group({ status: "suppressed", share: null, ratio: null })])),
-    ).toHaveLength(3);
+    expect(table(groupsCsv([group(), group({ status: "withheld", share: null, ratio: null })]))).toHaveLength(
+      3,
+    );
   });
 });
 
@@ -163,9 +163,9 @@ describe("withheld and missing figures are empty cells", () => {
   it("a suppressed group has status 'suppressed', its reason, and empty share and ratio cells", () => {
     const why = "Fewer than 10 students: withheld to protect the students' privacy.";
     const [row] = records(
-      groupsCsv([group({ status: "suppressed", share: null, ratio: null, reason: why, students: 4 })]),
+      groupsCsv([group({ status: "withheld", share: null, ratio: null, reason: why, students: 4 })]),
     );
-    expect(row!.status).toBe("suppressed");
+    expect(row!.status).toBe("withheld");
     expect(row!.reason).toBe(why);
     for (const c of ["share", "share_low", "share_high", "ratio", "ratio_low", "ratio_high"]) {
       expect(row![c], c).toBe("");
@@ -212,7 +212,7 @@ describe("withheld and missing figures are empty cells", () => {
     };
     const [r] = records(trendsCsv([row]));
     expect(r).toMatchObject({
-      status: "suppressed",
+      status: "withheld",
       windows: "",
       sessions: "",
       share: "",

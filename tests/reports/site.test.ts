@@ -3,7 +3,7 @@
  * page checked for what DESIGN.md and the reports issue promise.
  * - WCAG 2.2 A and AA rules by axe-core 4.14 (Deque; the rules' own WCAG mapping) in headless Chromium;
  * - Flesch–Kincaid grade ≤ 8 of each page's prose (Kincaid et al. 1975; tables and numbers removed);
- * - student ids and names only under check-ins/ (HTML, and PDF text by pdftotext) and data/;
+ * - student ids and names only under counselors/ (HTML, and PDF text by pdftotext) and data/;
  * - PDFs tagged (pdfinfo: "Tagged: yes"), titles without student names.
  * Needs Chromium and poppler-utils (.ci/run installs them).
  */
@@ -31,7 +31,7 @@ describe("the built folder", () => {
   it("has every audience folder, the data tables and one PDF per audience (per caseload for check-ins)", () => {
     for (const f of [
       "index.html",
-      "check-ins/index.html",
+      "counselors/index.html",
       "content/index.html",
       "support/index.html",
       "about/index.html",
@@ -47,7 +47,7 @@ describe("the built folder", () => {
     ]) {
       expect(site.files).toContain(f);
     }
-    expect(pdfs().filter((f) => f.startsWith("check-ins/")).length).toBeGreaterThanOrEqual(1);
+    expect(pdfs().filter((f) => f.startsWith("counselors/")).length).toBeGreaterThanOrEqual(1);
     for (const a of ["content", "support", "about"]) expect(pdfs()).toContain(`${a}/${a}.pdf`);
   });
 
@@ -89,8 +89,8 @@ describe("plain language", () => {
 });
 
 describe("privacy", () => {
-  it("shows no student id or name outside check-ins/ (HTML and PDF text)", () => {
-    const outside = [...pages(), ...pdfs()].filter((f) => !f.startsWith("check-ins/"));
+  it("shows no student id or name outside counselors/ (HTML and PDF text)", () => {
+    const outside = [...pages(), ...pdfs()].filter((f) => !f.startsWith("counselors/"));
     for (const f of outside) {
       const content = f.endsWith(".pdf")
         ? execFileSync("pdftotext", [join(site.dir, f), "-"], { encoding: "utf8" })
